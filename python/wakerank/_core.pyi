@@ -1,0 +1,3 @@
+"""Type stubs of the compiled module wakerank._core (an implementation detail)."""
+
+def core_version() -> str: ...

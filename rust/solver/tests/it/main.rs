@@ -1,0 +1,6 @@
+//! Integration tests of the public API of wakerank-solver (one test binary).
+
+#[test]
+fn version_is_set() {
+    assert!(!wakerank_solver::VERSION.is_empty());
+}
