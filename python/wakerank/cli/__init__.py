@@ -1,10 +1,15 @@
-"""The `wakerank` command line. It calls only the public Python API."""
+"""The `wakerank` command line (typer). It calls only the public Python API.
+
+Each command group lives in its own module of this package and registers itself on `app`
+below; `_errors.py` turns every expected error into one clear line and a non-zero exit.
+"""
 
 from __future__ import annotations
 
 import typer
 
 import wakerank
+from wakerank.cli._errors import run_app
 
 app = typer.Typer(
     name="wakerank",
@@ -30,6 +35,9 @@ def _root(
     """Screen airfoil sections for the least profile drag at the design lift."""
 
 
+# Command modules register themselves on `app` when imported (one line each).
+from wakerank.cli import bench as _bench  # noqa: E402,F401
+
 def main() -> None:
     """Entry point of the console script."""
-    app()
+    run_app(app)

@@ -1,0 +1,1 @@
+"""Benchmarks behind `wakerank bench` (one module per subject)."""
