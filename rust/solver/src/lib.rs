@@ -4,6 +4,7 @@
 //! linear-vortex panel method, the integral boundary layer and the viscous–inviscid coupling
 //! that gives each case's drag from the far-wake momentum defect (cd = 2θ∞/c).
 
+pub mod boundary_layer;
 pub mod error;
 pub mod geometry;
 
