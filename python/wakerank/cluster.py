@@ -63,8 +63,8 @@ def parse_target(spec: str) -> ClusterTarget:
 
 
 @dataclass(frozen=True)
-class ChunkOutcome:
-    """What became of one chunk: its result, or the error of its last try."""
+class TaskOutcome:
+    """What became of one submitted chunk: its result, or the error of its last try."""
 
     chunk: Any
     result: Any | None
@@ -142,25 +142,27 @@ def _total_threads(client: Any) -> int:
 
 def run_chunks(
     client: Any,
-    chunk_function: Callable[[Any, str], Any],
+    chunk_function: Callable[..., Any],
     chunks: Iterable[Any],
     out_dir: str,
     *,
     retries: int = DEFAULT_RETRIES,
     chunk_key: Callable[[Any], str] = lambda chunk: str(chunk.chunk_id),
-) -> Iterator[ChunkOutcome]:
+) -> Iterator[TaskOutcome]:
     """Submit ``chunk_function(chunk, out_dir)`` for every chunk and yield outcomes as they end.
 
     At most a few tasks per worker thread are in flight, so memory on the client and the
     scheduler stays bounded for any campaign size. A task that raises is retried ``retries``
     times by Dask; a task on a worker that dies is rescheduled by Dask (up to its
     ``allowed-failures`` setting). A chunk that fails on every try is yielded with its error
-    rather than dropped, so the runner can record it in the manifest.
+    rather than dropped, so the runner can record it in the manifest. When the consumer stops
+    early, the tasks still in flight are cancelled.
     """
     distributed = _import_distributed()
     pending = iter(chunks)
     window = IN_FLIGHT_PER_THREAD * _total_threads(client)
     owner: dict[str, Any] = {}
+    in_flight: dict[str, Any] = {}
 
     def submit_next() -> Any | None:
         chunk = next(pending, None)
@@ -168,25 +170,30 @@ def run_chunks(
             return None
         key = f"wakerank-chunk-{chunk_key(chunk)}"
         owner[key] = chunk
-        return client.submit(
-            chunk_function, chunk, out_dir, key=key, retries=retries, pure=False
-        )
+        future = client.submit(chunk_function, chunk, out_dir, key=key, retries=retries, pure=False)
+        in_flight[key] = future
+        return future
 
     first = [f for f in (submit_next() for _ in range(window)) if f is not None]
     if not first:
         return
     flow = distributed.as_completed(first)
-    for future in flow:
-        chunk = owner.pop(future.key)
-        if future.status == "finished":
-            outcome = ChunkOutcome(chunk=chunk, result=future.result(), error=None)
-        else:
-            outcome = ChunkOutcome(chunk=chunk, result=None, error=_describe_failure(future))
-        future.release()
-        refill = submit_next()
-        if refill is not None:
-            flow.add(refill)
-        yield outcome
+    try:
+        for future in flow:
+            chunk = owner.pop(future.key)
+            in_flight.pop(future.key, None)
+            if future.status == "finished":
+                outcome = TaskOutcome(chunk=chunk, result=future.result(), error=None)
+            else:
+                outcome = TaskOutcome(chunk=chunk, result=None, error=_describe_failure(future))
+            future.release()
+            refill = submit_next()
+            if refill is not None:
+                flow.add(refill)
+            yield outcome
+    finally:
+        if in_flight:
+            client.cancel(list(in_flight.values()))
 
 
 def _describe_failure(future: Any) -> str:
@@ -196,3 +203,46 @@ def _describe_failure(future: Any) -> str:
         exc = outer
     kind = type(exc).__name__
     return f"{kind}: {exc}" if str(exc) else kind
+
+
+class DaskBackend:
+    """Campaign-runner backend that runs `wakerank.runner.run_chunk` as Dask tasks.
+
+    ``DaskBackend("local:4")`` or ``DaskBackend("tcp://head:8786")``; use it as the runner's
+    backend. The client (and a local cluster) opens when `run` starts and closes when it ends.
+    Yields a `ChunkResult` per finished chunk and a `ChunkFailure` per chunk that failed on
+    every try, like every backend of the runner.
+    """
+
+    def __init__(
+        self,
+        cluster: str,
+        *,
+        retries: int = DEFAULT_RETRIES,
+        analysis_function: Callable[..., Any] | None = None,
+    ):
+        self.target = parse_target(cluster)
+        self.retries = retries
+        self.analysis_function = analysis_function
+
+    def describe(self) -> str:
+        """Where the chunks run, for progress output."""
+        return self.target.describe()
+
+    def run(self, chunks: Any, out_dir: str) -> Iterator[Any]:
+        """Run every chunk on the cluster; yield one outcome per chunk as it ends."""
+        import functools
+
+        from wakerank.runner import ChunkFailure, run_chunk
+
+        task: Callable[..., Any] = run_chunk
+        if self.analysis_function is not None:
+            task = functools.partial(run_chunk, analysis_function=self.analysis_function)
+        with connect(self.target) as client:
+            for outcome in run_chunks(
+                client, task, chunks, str(out_dir), retries=self.retries
+            ):
+                if outcome.failed:
+                    yield ChunkFailure(outcome.chunk.chunk_id, outcome.error or "failed")
+                else:
+                    yield outcome.result

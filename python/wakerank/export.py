@@ -134,8 +134,8 @@ def design_point_entry(row: dict[str, Any], y_plus: float) -> dict[str, Any]:
         "alpha_deg": float(row["alpha_deg"]),
         "transition": {
             "setting": str(row.get("transition") or "free"),
-            "upper_x": _number_or_none(row, "transition_upper_x"),
-            "lower_x": _number_or_none(row, "transition_lower_x"),
+            "upper_x": _number_or_none(row, "transition_upper"),
+            "lower_x": _number_or_none(row, "transition_lower"),
         },
         "predicted": {
             "cl": cl if cl is not None else float(row["design_cl"]),
@@ -275,7 +275,7 @@ def export_shortlist(
     ids = shortlist["section_id"].unique(maintain_order=True).to_list()
     if not ids:
         raise InputError("shortlist is empty: nothing to export")
-    keys = [k for k in ("section_id", "design_cl", "reynolds", "mach", "transition")
+    keys = [k for k in ("section_id", "condition_id", "design_cl", "reynolds", "mach", "transition")
             if k in shortlist.columns and k in design.columns]
     wanted = shortlist.select(keys).unique(maintain_order=True)
     points = design.join(wanted, on=keys, how="semi")
@@ -293,7 +293,7 @@ def export_shortlist(
                 points.filter(pl.col("section_id") == section_id),
                 out_dir,
                 options,
-                name=row.get("name"),
+                name=row.get("label"),
                 family=row.get("family"),
             )
         )

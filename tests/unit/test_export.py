@@ -65,8 +65,8 @@ def _design_rows(section_id: str) -> pl.DataFrame:
             "cl": [0.4, 0.55],
             "cd": [0.0071, 0.0079],
             "cm_c4": [-0.001, -0.002],
-            "transition_upper_x": [0.31, 0.22],
-            "transition_lower_x": [0.62, 0.71],
+            "transition_upper": [0.31, 0.22],
+            "transition_lower": [0.62, 0.71],
             "l_over_d": [56.3, 69.6],
         }
     )
@@ -75,7 +75,7 @@ def _design_rows(section_id: str) -> pl.DataFrame:
 def _catalog_frames(section_id: str, sharp: bool):
     x, y = naca_symmetric(sharp=sharp)
     sections = pl.DataFrame(
-        {"section_id": [section_id], "family": ["naca4"], "name": ["NACA 0012"],
+        {"section_id": [section_id], "family": ["naca4"], "label": ["NACA 0012"],
          "x": [x.tolist()], "y": [y.tolist()]}
     )
     shortlist = pl.DataFrame({"rank": [1, 1], "section_id": [section_id] * 2, "design_cl": [0.4, 0.55]})
