@@ -1,11 +1,11 @@
-"""Run campaign chunks on a Dask cluster: a backend for the campaign runner.
+"""Run campaign chunks on a Dask cluster: connection and task submission for the runner.
 
-The runner hands over pending chunks and a pure, picklable chunk function (by default
-`wakerank.runner.run_chunk`); each chunk runs as one Dask task on some worker, which writes its
-Parquet part atomically into the shared output folder. Part names depend only on the chunk's
-content, so a retried chunk rewrites the same file and the catalog is the same whichever
-worker (or how many tries) produced it. Dask's own scheduler does the work placement and the
-retries; nothing here schedules.
+The runner's Dask backend (`wakerank.runner.DaskBackend`) hands over pending chunks and the
+pure, picklable chunk function `wakerank.runner.run_chunk`; each chunk runs as one Dask task
+on some worker, which writes its Parquet part atomically into the shared output folder. Part
+names depend only on the chunk's content, so a retried chunk rewrites the same file and the
+catalog is the same whichever worker (or how many tries) produced it. Dask's own scheduler
+does the work placement and the retries; nothing here schedules.
 
 Targets: ``tcp://HOST:PORT`` (a running ``dask scheduler``) or ``local:N`` (a LocalCluster of
 N worker processes on this machine, one thread each).
@@ -204,45 +204,3 @@ def _describe_failure(future: Any) -> str:
     kind = type(exc).__name__
     return f"{kind}: {exc}" if str(exc) else kind
 
-
-class DaskBackend:
-    """Campaign-runner backend that runs `wakerank.runner.run_chunk` as Dask tasks.
-
-    ``DaskBackend("local:4")`` or ``DaskBackend("tcp://head:8786")``; use it as the runner's
-    backend. The client (and a local cluster) opens when `run` starts and closes when it ends.
-    Yields a `ChunkResult` per finished chunk and a `ChunkFailure` per chunk that failed on
-    every try, like every backend of the runner.
-    """
-
-    def __init__(
-        self,
-        cluster: str,
-        *,
-        retries: int = DEFAULT_RETRIES,
-        analysis_function: Callable[..., Any] | None = None,
-    ):
-        self.target = parse_target(cluster)
-        self.retries = retries
-        self.analysis_function = analysis_function
-
-    def describe(self) -> str:
-        """Where the chunks run, for progress output."""
-        return self.target.describe()
-
-    def run(self, chunks: Any, out_dir: str) -> Iterator[Any]:
-        """Run every chunk on the cluster; yield one outcome per chunk as it ends."""
-        import functools
-
-        from wakerank.runner import ChunkFailure, run_chunk
-
-        task: Callable[..., Any] = run_chunk
-        if self.analysis_function is not None:
-            task = functools.partial(run_chunk, analysis_function=self.analysis_function)
-        with connect(self.target) as client:
-            for outcome in run_chunks(
-                client, task, chunks, str(out_dir), retries=self.retries
-            ):
-                if outcome.failed:
-                    yield ChunkFailure(outcome.chunk.chunk_id, outcome.error or "failed")
-                else:
-                    yield outcome.result

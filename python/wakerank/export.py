@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import json
 import math
+import re
 from dataclasses import dataclass
 from importlib import resources
 from pathlib import Path
@@ -257,28 +258,63 @@ def _safe_folder(section_id: str) -> str:
     return cleaned
 
 
+
+#: Values the ranking gives per design cl, as ``<name>_at_cl_<cl>`` columns of a shortlist.
+PER_DESIGN_POINT = ("alpha_deg", "cd", "cm_c4", "transition_upper", "transition_lower")
+#: Condition columns carried from a shortlist row into each of its design points.
+CONDITION_KEYS = ("section_id", "condition_id", "reynolds", "mach", "n_factor", "transition")
+_AT_CL = re.compile(r"^cd_at_cl_(.+)$")
+
+
+def design_points_from_shortlist(shortlist: pl.DataFrame) -> pl.DataFrame:
+    """One row per shortlisted section x condition x design cl (long form).
+
+    A shortlist from `wakerank.rank` holds one row per section and condition, with the values
+    at each design cl in ``<name>_at_cl_<cl>`` columns; a long table with a ``design_cl``
+    column is returned as it is.
+    """
+    if "design_cl" in shortlist.columns:
+        return shortlist
+    targets = [m.group(1) for c in shortlist.columns if (m := _AT_CL.match(c))]
+    if not targets:
+        raise InputError("shortlist has neither a design_cl column nor cd_at_cl_<cl> columns")
+    keys = [k for k in CONDITION_KEYS if k in shortlist.columns]
+    frames = []
+    for text in targets:
+        design_cl = float(text)
+        values = [
+            pl.col(f"{name}_at_cl_{text}").alias(name)
+            for name in PER_DESIGN_POINT
+            if f"{name}_at_cl_{text}" in shortlist.columns
+        ]
+        frames.append(
+            shortlist.select(*keys, *values).with_columns(
+                pl.lit(design_cl).alias("design_cl"),
+                pl.lit(design_cl).alias("cl"),
+                (pl.lit(design_cl) / pl.col("cd")).alias("l_over_d"),
+            )
+        )
+    return pl.concat(frames, how="diagonal_relaxed")
+
+
 def export_shortlist(
     shortlist: pl.DataFrame,
     sections: pl.DataFrame,
-    design: pl.DataFrame,
     out_dir: Path,
     options: ExportOptions,
 ) -> list[Path]:
     """Export every section of the shortlist (in its order) with its design points.
 
-    ``sections`` needs ``section_id`` and list columns ``x``, ``y``; ``design`` is the
-    catalog's design table. Design points are those of the shortlist's design cl (and
-    Reynolds number, when the shortlist names one) for each section.
+    ``sections`` needs ``section_id`` and list columns ``x``, ``y`` (the catalog's
+    sections table); the design points come from the shortlist itself (see
+    `design_points_from_shortlist`), so a shortlist ranked at any design cl exports.
     """
     if "section_id" not in shortlist.columns:
         raise InputError("shortlist has no 'section_id' column")
     ids = shortlist["section_id"].unique(maintain_order=True).to_list()
     if not ids:
         raise InputError("shortlist is empty: nothing to export")
-    keys = [k for k in ("section_id", "condition_id", "design_cl", "reynolds", "mach", "transition")
-            if k in shortlist.columns and k in design.columns]
-    wanted = shortlist.select(keys).unique(maintain_order=True)
-    points = design.join(wanted, on=keys, how="semi")
+    points = design_points_from_shortlist(shortlist)
     folders = []
     for section_id in ids:
         found = sections.filter(pl.col("section_id") == section_id)

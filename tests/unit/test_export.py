@@ -52,22 +52,29 @@ def test_closing_a_blunt_trailing_edge_keeps_the_nose():
     assert np.max(np.abs(cy - y)) <= 0.5 * trailing_edge_gap(x, y) + 1e-15
 
 
-def _design_rows(section_id: str) -> pl.DataFrame:
+def _shortlist(section_id: str) -> pl.DataFrame:
+    """A shortlist row as `wakerank.rank` gives it: values at each design cl in columns."""
     return pl.DataFrame(
         {
-            "section_id": [section_id, section_id],
-            "reynolds": [8e5, 8e5],
-            "mach": [0.08, 0.08],
-            "n_factor": [9.0, 9.0],
-            "transition": ["free", "free"],
-            "design_cl": [0.4, 0.55],
-            "alpha_deg": [3.6, 5.0],
-            "cl": [0.4, 0.55],
-            "cd": [0.0071, 0.0079],
-            "cm_c4": [-0.001, -0.002],
-            "transition_upper": [0.31, 0.22],
-            "transition_lower": [0.62, 0.71],
-            "l_over_d": [56.3, 69.6],
+            "rank": [1],
+            "section_id": [section_id],
+            "label": ["NACA 0012"],
+            "reynolds": [8e5],
+            "mach": [0.08],
+            "n_factor": [9.0],
+            "transition": ["free"],
+            "condition_id": ["c1"],
+            "weighted_cd": [0.0075],
+            "alpha_deg_at_cl_0.4": [3.6],
+            "cd_at_cl_0.4": [0.0071],
+            "cm_c4_at_cl_0.4": [-0.001],
+            "transition_upper_at_cl_0.4": [0.31],
+            "transition_lower_at_cl_0.4": [0.62],
+            "alpha_deg_at_cl_0.55": [5.0],
+            "cd_at_cl_0.55": [0.0079],
+            "cm_c4_at_cl_0.55": [-0.002],
+            "transition_upper_at_cl_0.55": [0.22],
+            "transition_lower_at_cl_0.55": [0.71],
         }
     )
 
@@ -78,19 +85,21 @@ def _catalog_frames(section_id: str, sharp: bool):
         {"section_id": [section_id], "family": ["naca4"], "label": ["NACA 0012"],
          "x": [x.tolist()], "y": [y.tolist()]}
     )
-    shortlist = pl.DataFrame({"rank": [1, 1], "section_id": [section_id] * 2, "design_cl": [0.4, 0.55]})
-    return shortlist, sections, _design_rows(section_id)
+    return _shortlist(section_id), sections
 
 
 def test_case_file_validates_against_its_schema(tmp_path):
     jsonschema = pytest.importorskip("jsonschema")
-    shortlist, sections, design = _catalog_frames("s-0012", sharp=False)
-    [folder] = export_shortlist(shortlist, sections, design, tmp_path, ExportOptions(close_trailing_edge=True))
+    shortlist, sections = _catalog_frames("s-0012", sharp=False)
+    [folder] = export_shortlist(shortlist, sections, tmp_path, ExportOptions(close_trailing_edge=True))
     case = json.loads((folder / "case.json").read_text())
     jsonschema.Draft202012Validator.check_schema(case_schema())
     jsonschema.validate(case, case_schema())
     assert case["section"]["trailing_edge"] == "closed-by-export"
     assert [p["design_cl"] for p in case["design_points"]] == [0.4, 0.55]
+    assert case["design_points"][1]["predicted"]["cd"] == 0.0079
+    assert case["design_points"][1]["transition"]["upper_x"] == 0.22
+    assert case["design_points"][1]["alpha_deg"] == 5.0
     first = case["design_points"][0]["first_cell"]
     assert first["height"] == pytest.approx(wall_spacing(8e5).first_cell_height)
     coords = np.loadtxt(folder / "coordinates.csv", delimiter=",", skiprows=1)
@@ -100,8 +109,8 @@ def test_case_file_validates_against_its_schema(tmp_path):
 
 def test_schema_rejects_a_case_without_design_points(tmp_path):
     jsonschema = pytest.importorskip("jsonschema")
-    shortlist, sections, design = _catalog_frames("s-0012", sharp=True)
-    [folder] = export_shortlist(shortlist, sections, design, tmp_path, ExportOptions())
+    shortlist, sections = _catalog_frames("s-0012", sharp=True)
+    [folder] = export_shortlist(shortlist, sections, tmp_path, ExportOptions())
     case = json.loads((folder / "case.json").read_text())
     case["design_points"] = []
     with pytest.raises(jsonschema.ValidationError):
@@ -109,16 +118,16 @@ def test_schema_rejects_a_case_without_design_points(tmp_path):
 
 
 def test_unknown_section_is_one_clear_error(tmp_path):
-    shortlist, sections, design = _catalog_frames("s-0012", sharp=True)
+    shortlist, sections = _catalog_frames("s-0012", sharp=True)
     with pytest.raises(InputError, match="not in the catalog"):
-        export_shortlist(shortlist.with_columns(section_id=pl.lit("nope")), sections, design,
+        export_shortlist(shortlist.with_columns(section_id=pl.lit("nope")), sections,
                          tmp_path, ExportOptions())
 
 
 def test_mesh_reopens_with_markers_and_first_cell(tmp_path):
     gmsh = pytest.importorskip("gmsh")
-    shortlist, sections, design = _catalog_frames("s-0012", sharp=True)
-    [folder] = export_shortlist(shortlist, sections, design, tmp_path, ExportOptions(mesh=True))
+    shortlist, sections = _catalog_frames("s-0012", sharp=True)
+    [folder] = export_shortlist(shortlist, sections, tmp_path, ExportOptions(mesh=True))
     case = json.loads((folder / "case.json").read_text())
     mesh = case["mesh"]
     assert mesh["farfield_radius"] >= 50.0
