@@ -1,5 +1,7 @@
 //! Section geometry: the families, coordinate import, re-panelling and geometric properties.
 
+pub mod karman_trefftz;
+
 /// An airfoil section as an ordered loop of points in chord-normalised coordinates.
 ///
 /// Ordering convention used throughout the core: the first point is the trailing edge of the

@@ -4,3 +4,4 @@
 fn version_is_set() {
     assert!(!wakerank_solver::VERSION.is_empty());
 }
+mod inviscid;

@@ -1,0 +1,362 @@
+//! Wall and wake transpiration: how surface and wake source sheets change the edge velocity.
+//!
+//! The displacement effect of the boundary layer and wake enters the inviscid flow as source
+//! sheets of strength σ = d(uₑδ*)/dξ (Lighthill, J. Fluid Mech. 4, 1958, "equivalent sources"),
+//! ξ the boundary-layer arc length running from the stagnation point towards each trailing
+//! edge and along the wake. Each surface panel and each wake panel carries a uniform σ.
+//!
+//! **Mass-defect unknowns.** There is one m per surface node, then one per wake node:
+//! - on the surface m is *signed like γ*: mᵢ = γᵢ·δ*ᵢ (so mᵢ = uₑδ* on the upper side, where
+//!   γ > 0, and −uₑδ* on the lower side). Then σ on surface panel k (nodes k, k+1) is
+//!   σₖ = −(m_{k+1} − m_k)/Δs_k on both sides, with no special case at the stagnation point;
+//! - on the wake m = uₑδ* ≥ 0 and σ on wake panel k is (m_{k+1} − m_k)/Δs_k; the first wake
+//!   node carries the merged mass defect of both sides at the trailing edge.
+//!
+//! **Edge velocities.** On the surface the signed speed γᵢ (γ > 0 towards the upper trailing
+//! edge); along the wake the speed uₑ = V·t̂ along the wake direction. Wake speeds are evaluated
+//! at the wake panel midpoints, where the source sheets are regular, and interpolated linearly
+//! in s to the nodes (extrapolated at the two ends).
+//!
+//! The surface rows of the influence matrix include the re-solved vortex strengths: each unit m
+//! changes σ, which changes the normal-velocity right-hand side, and the vortex sheet re-adjusts
+//! under the Kutta condition. With sᵢ = +1 on the upper side (γ > 0), −1 on the lower side and
+//! +1 on the wake, the derivative of the unsigned speeds with respect to the unsigned mass
+//! defects is ∂uₑᵢ/∂mⱼ = sᵢ·sⱼ·Dᵢⱼ.
+
+use super::influence::{influence_at, Coefficients, Panels, Scratch};
+use super::{InviscidSolution, PanelSolver, Wake};
+use crate::error::{Result, SolverError};
+use crate::linalg::DenseMatrix;
+
+/// An inviscid solution with transpiration: the surface result and the wake edge speeds.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TranspirationSolution {
+    /// Surface solution (γ, Cp and integrated coefficients including the source effect).
+    pub solution: InviscidSolution,
+    /// Edge speed at each wake node.
+    pub wake_velocity: Vec<f64>,
+}
+
+/// Influence data of a wake: panels, and the interpolation from midpoints to nodes.
+struct WakeData {
+    panels: Panels,
+    /// For each wake node: (midpoint a, weight a, midpoint b, weight b).
+    to_nodes: Vec<(usize, f64, usize, f64)>,
+}
+
+impl WakeData {
+    /// Wake panels and the midpoint-to-node interpolation. A wake of one panel gives both nodes
+    /// the midpoint value; a wake of fewer than two nodes has no panels and zero speeds.
+    fn new(wake: &Wake) -> Self {
+        let n = wake.x.len().min(wake.y.len()).min(wake.s.len());
+        let panels = Panels::new(&wake.x[..n], &wake.y[..n]);
+        let mids: Vec<f64> = (0..n.saturating_sub(1))
+            .map(|k| 0.5 * (wake.s[k] + wake.s[k + 1]))
+            .collect();
+        let interp = |a: usize, b: usize, s: f64| {
+            let w_b = (s - mids[a]) / (mids[b] - mids[a]);
+            (a, 1.0 - w_b, b, w_b)
+        };
+        let to_nodes = (0..n)
+            .map(|k| match mids.len() {
+                0 => (0, 0.0, 0, 0.0),
+                1 => (0, 1.0, 0, 0.0),
+                _ if k == 0 => interp(0, 1, wake.s[0]),
+                m if k == n - 1 => interp(m - 2, m - 1, wake.s[k]),
+                _ => interp(k - 1, k, wake.s[k]),
+            })
+            .collect();
+        WakeData { panels, to_nodes }
+    }
+
+    fn interpolate(&self, mid_values: &[f64]) -> Vec<f64> {
+        if mid_values.is_empty() {
+            return vec![0.0; self.to_nodes.len()];
+        }
+        self.to_nodes
+            .iter()
+            .map(|&(a, wa, b, wb)| wa * mid_values[a] + wb * mid_values[b])
+            .collect()
+    }
+}
+
+impl PanelSolver {
+    /// Normal velocity at each surface collocation point per unit σ on every surface panel and
+    /// then every wake panel (rows: N; the Kutta row is zero). The self term is the one-sided
+    /// value −σ/2 on the fluid-free inner side, which keeps the interior at rest.
+    fn source_normal_rows(&self, wake: &WakeData) -> DenseMatrix {
+        let (n, np, nw) = (
+            self.panels.nodes(),
+            self.panels.count(),
+            wake.panels.count(),
+        );
+        let mut rows = DenseMatrix::zeros(n, np + nw);
+        let mut scratch = Scratch::default();
+        let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
+        let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
+        for i in 0..np {
+            let (px, py) = (self.panels.mx[i], self.panels.my[i]);
+            let (nx, ny) = self.panels.normal(i);
+            let on_body = Coefficients {
+                vortex: None,
+                source: Some((&mut su, &mut sv)),
+            };
+            influence_at(&self.panels, px, py, Some(i), &mut scratch, on_body);
+            let on_wake = Coefficients {
+                vortex: None,
+                source: Some((&mut wu, &mut wv)),
+            };
+            influence_at(&wake.panels, px, py, None, &mut scratch, on_wake);
+            let row = rows.row_mut(i);
+            for k in 0..np {
+                row[k] = su[k] * nx + sv[k] * ny;
+            }
+            row[i] -= 0.5;
+            for k in 0..nw {
+                row[np + k] = wu[k] * nx + wv[k] * ny;
+            }
+        }
+        rows
+    }
+
+    /// Tangential velocity at each wake midpoint per unit γ at each surface node (`vortex`,
+    /// Nw × N) and per unit σ on each surface then wake panel (`source`, Nw × (Np + Nw)).
+    fn wake_tangential_rows(&self, wake: &WakeData) -> (DenseMatrix, DenseMatrix) {
+        let (n, np, nw) = (
+            self.panels.nodes(),
+            self.panels.count(),
+            wake.panels.count(),
+        );
+        let mut vortex = DenseMatrix::zeros(nw, n);
+        let mut source = DenseMatrix::zeros(nw, np + nw);
+        let mut scratch = Scratch::default();
+        let (mut vu, mut vv) = (vec![0.0; n], vec![0.0; n]);
+        let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
+        let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
+        for k in 0..nw {
+            let (px, py) = (wake.panels.mx[k], wake.panels.my[k]);
+            let (tx, ty) = (wake.panels.tx[k], wake.panels.ty[k]);
+            let body = Coefficients {
+                vortex: Some((&mut vu, &mut vv)),
+                source: Some((&mut su, &mut sv)),
+            };
+            influence_at(&self.panels, px, py, None, &mut scratch, body);
+            let own = Coefficients {
+                vortex: None,
+                source: Some((&mut wu, &mut wv)),
+            };
+            influence_at(&wake.panels, px, py, Some(k), &mut scratch, own);
+            for j in 0..n {
+                vortex.set(k, j, vu[j] * tx + vv[j] * ty);
+            }
+            let row = source.row_mut(k);
+            for j in 0..np {
+                row[j] = su[j] * tx + sv[j] * ty;
+            }
+            for j in 0..nw {
+                row[np + j] = wu[j] * tx + wv[j] * ty;
+            }
+        }
+        (vortex, source)
+    }
+
+    /// Free-stream tangential component at each wake midpoint.
+    fn wake_free_stream(&self, wake: &WakeData, alpha_deg: f64) -> Vec<f64> {
+        let (s, c) = alpha_deg.to_radians().sin_cos();
+        (0..wake.panels.count())
+            .map(|k| c * wake.panels.tx[k] + s * wake.panels.ty[k])
+            .collect()
+    }
+
+    /// Source strengths on the surface panels and on the wake panels from the mass defects m
+    /// (surface nodes then wake nodes, signed as in the module documentation).
+    pub fn sources_from_mass_defect(
+        &self,
+        wake: &Wake,
+        mass_defect: &[f64],
+    ) -> Result<(Vec<f64>, Vec<f64>)> {
+        let n = self.panels.nodes();
+        if mass_defect.len() != n + wake.len() {
+            return Err(SolverError::input(format!(
+                "mass defect needs {} values (surface nodes + wake nodes), got {}",
+                n + wake.len(),
+                mass_defect.len()
+            )));
+        }
+        let (ms, mw) = mass_defect.split_at(n);
+        let surface = (0..n - 1)
+            .map(|k| -(ms[k + 1] - ms[k]) / self.panels.len[k])
+            .collect();
+        let wake_sigma = (0..wake.len().saturating_sub(1))
+            .map(|k| (mw[k + 1] - mw[k]) / (wake.s[k + 1] - wake.s[k]))
+            .collect();
+        Ok((surface, wake_sigma))
+    }
+
+    /// Inviscid edge velocity for `alpha_deg`: the signed surface speeds γ at the surface nodes,
+    /// then the speed along the wake at the wake nodes (no transpiration).
+    pub fn edge_velocity(&self, alpha_deg: f64, wake: &Wake) -> Vec<f64> {
+        let zeros_surface = vec![0.0; self.panels.count()];
+        let zeros_wake = vec![0.0; wake.len().saturating_sub(1)];
+        match self.solve_with_transpiration(alpha_deg, wake, &zeros_surface, &zeros_wake) {
+            Ok(t) => t
+                .solution
+                .gamma
+                .into_iter()
+                .chain(t.wake_velocity)
+                .collect(),
+            Err(_) => unreachable!("source arrays are sized from the wake itself"),
+        }
+    }
+
+    /// Direct solve with given source strengths on the surface panels (`surface_sigma`, one per
+    /// panel, N − 1) and the wake panels (`wake_sigma`, one per wake panel). The vortex sheet is
+    /// re-solved under the Kutta condition with the sources in the tangency right-hand side.
+    pub fn solve_with_transpiration(
+        &self,
+        alpha_deg: f64,
+        wake: &Wake,
+        surface_sigma: &[f64],
+        wake_sigma: &[f64],
+    ) -> Result<TranspirationSolution> {
+        let data = WakeData::new(wake);
+        let (n, np, nw) = (
+            self.panels.nodes(),
+            self.panels.count(),
+            data.panels.count(),
+        );
+        if surface_sigma.len() != np || wake_sigma.len() != nw {
+            return Err(SolverError::input(format!(
+                "transpiration needs {np} surface and {nw} wake source strengths, got {} and {}",
+                surface_sigma.len(),
+                wake_sigma.len()
+            )));
+        }
+        let sigma: Vec<f64> = surface_sigma.iter().chain(wake_sigma).copied().collect();
+        let normal = self.source_normal_rows(&data).matvec(&sigma);
+        let (s, c) = alpha_deg.to_radians().sin_cos();
+        let mut rhs: Vec<f64> = (0..n)
+            .map(|i| {
+                if i < np {
+                    let (nx, ny) = self.panels.normal(i);
+                    -(c * nx + s * ny) - normal[i]
+                } else {
+                    0.0
+                }
+            })
+            .collect();
+        self.lu.solve_in_place(&mut rhs);
+        let gamma = rhs;
+        let (vortex, source) = self.wake_tangential_rows(&data);
+        let free = self.wake_free_stream(&data, alpha_deg);
+        let induced_v = vortex.matvec(&gamma);
+        let induced_s = source.matvec(&sigma);
+        let mids: Vec<f64> = (0..nw)
+            .map(|k| free[k] + induced_v[k] + induced_s[k])
+            .collect();
+        let cp = gamma.iter().map(|g| 1.0 - g * g).collect();
+        Ok(TranspirationSolution {
+            solution: self.solution_from(alpha_deg, 0.0, gamma, cp),
+            wake_velocity: data.interpolate(&mids),
+        })
+    }
+
+    /// Mass-defect influence matrix D, (N + Nw)²: D[i][j] = ∂(edge velocity i)/∂(m_j), surface
+    /// nodes then wake nodes, with the signs of the module documentation. The edge velocity
+    /// with displacement is `edge_velocity(α, wake) + D·m`. It does not depend on α except
+    /// through the wake geometry.
+    pub fn mass_defect_influence(&self, wake: &Wake) -> DenseMatrix {
+        let data = WakeData::new(wake);
+        let (n, np, nw_nodes) = (
+            self.panels.nodes(),
+            self.panels.count(),
+            data.to_nodes.len(),
+        );
+        let nw = data.panels.count();
+        let total = n + nw_nodes;
+        let normal = self.source_normal_rows(&data);
+        // dσ/dm as sparse columns: column j touches at most two panels.
+        let column = |j: usize| -> [(usize, f64); 2] {
+            if j < n {
+                let before = if j >= 1 {
+                    (j - 1, -1.0 / self.panels.len[j - 1])
+                } else {
+                    (0, 0.0)
+                };
+                let after = if j < np {
+                    (j, 1.0 / self.panels.len[j])
+                } else {
+                    (0, 0.0)
+                };
+                [before, after]
+            } else {
+                let w = j - n;
+                let ds = |k: usize| wake.s[k + 1] - wake.s[k];
+                let before = if w >= 1 {
+                    (np + w - 1, 1.0 / ds(w - 1))
+                } else {
+                    (0, 0.0)
+                };
+                let after = if w < nw {
+                    (np + w, -1.0 / ds(w))
+                } else {
+                    (0, 0.0)
+                };
+                [before, after]
+            }
+        };
+        // Surface rows: dγ/dm = −A⁻¹·(B·S), one LU solve per column.
+        let mut d_gamma = DenseMatrix::zeros(n, total);
+        let mut rhs = vec![0.0; n];
+        for j in 0..total {
+            rhs.iter_mut().for_each(|r| *r = 0.0);
+            for (k, w) in column(j) {
+                if w != 0.0 {
+                    for i in 0..np {
+                        rhs[i] -= normal.get(i, k) * w;
+                    }
+                }
+            }
+            self.lu.solve_in_place(&mut rhs);
+            for i in 0..n {
+                d_gamma.set(i, j, rhs[i]);
+            }
+        }
+        // Wake rows at the midpoints: vortex part through dγ/dm plus the direct source part.
+        let (vortex, source) = self.wake_tangential_rows(&data);
+        let mut d_mid = DenseMatrix::zeros(nw, total);
+        for k in 0..nw {
+            let vrow = vortex.row(k);
+            let out = d_mid.row_mut(k);
+            for i in 0..n {
+                let a = vrow[i];
+                if a != 0.0 {
+                    for (o, g) in out.iter_mut().zip(d_gamma.row(i)) {
+                        *o += a * g;
+                    }
+                }
+            }
+            for (j, o) in out.iter_mut().enumerate() {
+                for (p, w) in column(j) {
+                    if w != 0.0 {
+                        *o += source.get(k, p) * w;
+                    }
+                }
+            }
+        }
+        let mut d = DenseMatrix::zeros(total, total);
+        for i in 0..n {
+            d.row_mut(i).copy_from_slice(d_gamma.row(i));
+        }
+        for (k, &(a, wa, b, wb)) in data.to_nodes.iter().enumerate() {
+            if nw == 0 {
+                break;
+            }
+            let (ra, rb) = (d_mid.row(a).to_vec(), d_mid.row(b).to_vec());
+            for (o, (x, y)) in d.row_mut(n + k).iter_mut().zip(ra.iter().zip(&rb)) {
+                *o = wa * x + wb * y;
+            }
+        }
+        d
+    }
+}

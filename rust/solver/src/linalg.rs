@@ -1,0 +1,205 @@
+//! Small dense linear algebra: a row-major matrix and an LU factorisation with partial pivoting.
+//!
+//! The panel systems are a few hundred unknowns, so a plain dense Doolittle LU (Golub & Van
+//! Loan, *Matrix Computations*, §3.4, partial pivoting) is fast enough and keeps the core free
+//! of external BLAS/LAPACK.
+
+use crate::error::{Result, SolverError};
+
+/// A dense row-major matrix of f64.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DenseMatrix {
+    /// Number of rows.
+    pub rows: usize,
+    /// Number of columns.
+    pub cols: usize,
+    /// Entries, row after row (`data[r * cols + c]`).
+    pub data: Vec<f64>,
+}
+
+impl DenseMatrix {
+    /// A rows × cols matrix of zeros.
+    pub fn zeros(rows: usize, cols: usize) -> Self {
+        DenseMatrix {
+            rows,
+            cols,
+            data: vec![0.0; rows * cols],
+        }
+    }
+
+    /// Entry at row `r`, column `c`.
+    #[inline]
+    pub fn get(&self, r: usize, c: usize) -> f64 {
+        self.data[r * self.cols + c]
+    }
+
+    /// Set the entry at row `r`, column `c`.
+    #[inline]
+    pub fn set(&mut self, r: usize, c: usize, value: f64) {
+        self.data[r * self.cols + c] = value;
+    }
+
+    /// Add `value` to the entry at row `r`, column `c`.
+    #[inline]
+    pub fn add(&mut self, r: usize, c: usize, value: f64) {
+        self.data[r * self.cols + c] += value;
+    }
+
+    /// Row `r` as a slice.
+    #[inline]
+    pub fn row(&self, r: usize) -> &[f64] {
+        &self.data[r * self.cols..(r + 1) * self.cols]
+    }
+
+    /// Mutable row `r`.
+    #[inline]
+    pub fn row_mut(&mut self, r: usize) -> &mut [f64] {
+        &mut self.data[r * self.cols..(r + 1) * self.cols]
+    }
+
+    /// Matrix–vector product `A·x` (`x.len()` must equal `cols`).
+    pub fn matvec(&self, x: &[f64]) -> Vec<f64> {
+        assert_eq!(
+            x.len(),
+            self.cols,
+            "matvec: vector length must equal the column count"
+        );
+        (0..self.rows)
+            .map(|r| self.row(r).iter().zip(x).map(|(a, b)| a * b).sum())
+            .collect()
+    }
+}
+
+/// LU factors of a square matrix, `P·A = L·U`, stored in place (unit lower L below the diagonal).
+#[derive(Debug, Clone)]
+pub struct LuFactors {
+    n: usize,
+    lu: Vec<f64>,
+    pivots: Vec<usize>,
+}
+
+impl LuFactors {
+    /// Factorise a square matrix with partial (row) pivoting.
+    ///
+    /// Fails with `SolverError::Geometry` when a pivot vanishes: for a panel system that means
+    /// coincident or degenerate panels, so the geometry is the thing to fix.
+    pub fn new(matrix: DenseMatrix) -> Result<Self> {
+        if matrix.rows != matrix.cols {
+            return Err(SolverError::Internal(format!(
+                "LU of a non-square {}x{} matrix",
+                matrix.rows, matrix.cols
+            )));
+        }
+        let n = matrix.rows;
+        let mut lu = matrix.data;
+        let mut pivots = vec![0usize; n];
+        let scale = lu
+            .iter()
+            .fold(0.0f64, |m, v| m.max(v.abs()))
+            .max(f64::MIN_POSITIVE);
+        for k in 0..n {
+            let (mut p, mut best) = (k, lu[k * n + k].abs());
+            for r in k + 1..n {
+                let v = lu[r * n + k].abs();
+                if v > best {
+                    best = v;
+                    p = r;
+                }
+            }
+            if best.is_nan() || best <= 1e-13 * scale {
+                return Err(SolverError::geometry(format!(
+                    "panel system is singular (pivot {k} of {n}): check for coincident or zero-length panels"
+                )));
+            }
+            pivots[k] = p;
+            if p != k {
+                for c in 0..n {
+                    lu.swap(k * n + c, p * n + c);
+                }
+            }
+            let inv = 1.0 / lu[k * n + k];
+            let (head, tail) = lu.split_at_mut((k + 1) * n);
+            let pivot_row = &head[k * n + k + 1..k * n + n];
+            for r in 0..n - k - 1 {
+                let row = &mut tail[r * n..r * n + n];
+                let factor = row[k] * inv;
+                row[k] = factor;
+                if factor != 0.0 {
+                    for (dst, src) in row[k + 1..].iter_mut().zip(pivot_row) {
+                        *dst -= factor * src;
+                    }
+                }
+            }
+        }
+        Ok(LuFactors { n, lu, pivots })
+    }
+
+    /// Order of the factorised matrix.
+    pub fn order(&self) -> usize {
+        self.n
+    }
+
+    /// Solve `A·x = b` in place (`b` becomes `x`).
+    pub fn solve_in_place(&self, b: &mut [f64]) {
+        let n = self.n;
+        assert_eq!(b.len(), n, "LU solve: right-hand side has the wrong length");
+        for k in 0..n {
+            let p = self.pivots[k];
+            if p != k {
+                b.swap(k, p);
+            }
+        }
+        for r in 1..n {
+            let row = &self.lu[r * n..r * n + r];
+            let s: f64 = row.iter().zip(&b[..r]).map(|(l, x)| l * x).sum();
+            b[r] -= s;
+        }
+        for r in (0..n).rev() {
+            let row = &self.lu[r * n..(r + 1) * n];
+            let s: f64 = row[r + 1..]
+                .iter()
+                .zip(&b[r + 1..])
+                .map(|(u, x)| u * x)
+                .sum();
+            b[r] = (b[r] - s) / row[r];
+        }
+    }
+
+    /// Solve `A·x = b`, returning `x`.
+    pub fn solve(&self, b: &[f64]) -> Vec<f64> {
+        let mut x = b.to_vec();
+        self.solve_in_place(&mut x);
+        x
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn solves_a_system_that_needs_pivoting() {
+        let a = DenseMatrix {
+            rows: 3,
+            cols: 3,
+            data: vec![0.0, 2.0, 1.0, 1.0, 1.0, 1.0, 2.0, 1.0, 3.0],
+        };
+        let x_true = [1.0, -2.0, 0.5];
+        let b = a.matvec(&x_true);
+        let lu = LuFactors::new(a).unwrap();
+        let x = lu.solve(&b);
+        for (u, v) in x.iter().zip(x_true) {
+            assert!((u - v).abs() < 1e-12);
+        }
+    }
+
+    #[test]
+    fn singular_matrix_is_a_geometry_error() {
+        let a = DenseMatrix {
+            rows: 2,
+            cols: 2,
+            data: vec![1.0, 2.0, 2.0, 4.0],
+        };
+        assert!(matches!(LuFactors::new(a), Err(SolverError::Geometry(_))));
+    }
+}
