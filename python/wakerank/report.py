@@ -83,12 +83,14 @@ def table_html(frame: pl.DataFrame, limit: int = TABLE_ROWS) -> str:
     return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>{more}"
 
 
-def convergence_table(points: pl.DataFrame) -> pl.DataFrame:
+def convergence_table(points: pl.DataFrame | pl.LazyFrame) -> pl.DataFrame:
     """Points, converged points and their share per Reynolds number and transition setting."""
-    keys = [k for k in ("reynolds", "transition") if k in points.columns]
-    failed = pl.col("error").is_not_null().sum() if "error" in points.columns else pl.lit(0)
+    lazy = points.lazy()
+    columns = lazy.collect_schema().names()
+    keys = [k for k in ("reynolds", "transition") if k in columns]
+    failed = pl.col("error").is_not_null().sum() if "error" in columns else pl.lit(0)
     return (
-        points.group_by(keys)
+        lazy.group_by(keys)
         .agg(
             pl.len().alias("points"),
             pl.col("converged").fill_null(False).sum().alias("converged"),
@@ -96,6 +98,7 @@ def convergence_table(points: pl.DataFrame) -> pl.DataFrame:
         )
         .with_columns((pl.col("converged") / pl.col("points")).alias("converged_share"))
         .sort(keys)
+        .collect()
     )
 
 
@@ -107,6 +110,18 @@ def _manifest_rows(manifest: dict[str, Any]) -> str:
         text = value if isinstance(value, str) else json.dumps(value, sort_keys=True)
         items.append(f"<tr><th>{html.escape(key)}</th>{_cell(text)}</tr>")
     return "<table>" + "".join(items) + "</table>"
+
+
+#: Shortlist columns left out of the report's table (long or internal).
+HIDDEN_COLUMNS = ("parameters", "condition_id", "turbulence_intensity")
+
+
+def _shortlist_html(shortlist: pl.DataFrame, design_cl: float, constraints: dict[str, Any]) -> str:
+    given = ", ".join(f"{k} = {v:g}" for k, v in constraints.items() if v is not None)
+    intro = f"<p>Ranked by cd at the design lift coefficient cl = {design_cl:g}"
+    intro += f"; constraints: {html.escape(given)}.</p>" if given else "; no constraints.</p>"
+    shown = shortlist.drop([c for c in HIDDEN_COLUMNS if c in shortlist.columns])
+    return intro + table_html(shown)
 
 
 def _image(uri: str, alt: str) -> str:
@@ -122,14 +137,19 @@ def build_report(
     shortlist: pl.DataFrame,
     design_cl: float,
     map_axes: Sequence[tuple[str, str]] = (("thickness", "camber"),),
+    convergence: pl.DataFrame | None = None,
+    constraints: dict[str, Any] | None = None,
 ) -> str:
-    """The report page as one HTML string (see PAGE_SECTIONS)."""
+    """The report page as one HTML string (see PAGE_SECTIONS).
+
+    `points` need only hold the shortlisted sections' rows; `design` holds cd at the design
+    cl for every section (for the maps); `convergence` defaults to `convergence_table(points)`.
+    """
     if shortlist.height == 0:
         raise InputError(f"the shortlist at cl = {design_cl:g} is empty: nothing to report")
     name = str(manifest.get("name") or manifest.get("campaign_name") or "catalog")
     labels = dict(zip(sections["section_id"].to_list(), sections["label"].to_list())) \
         if "label" in sections.columns else {}
-    ids = shortlist["section_id"].unique(maintain_order=True).to_list()[:POLAR_SECTIONS]
     reynolds_values = (
         shortlist["reynolds"].unique(maintain_order=True).to_list()
         if "reynolds" in shortlist.columns
@@ -137,7 +157,11 @@ def build_report(
     )
     polar_html = []
     for reynolds in reynolds_values:
-        figure = polar_figure(points, ids, reynolds=float(reynolds), labels=labels)
+        here = shortlist.filter(pl.col("reynolds") == reynolds) if "reynolds" in shortlist.columns else shortlist
+        ids = here["section_id"].unique(maintain_order=True).to_list()[:POLAR_SECTIONS]
+        setting = here["transition"][0] if "transition" in here.columns else None
+        figure = polar_figure(points, ids, reynolds=float(reynolds), transition=setting,
+                              labels=labels)
         polar_html.append(_image(figure_to_data_uri(figure), f"polars at Re {reynolds:g}"))
     map_html = []
     for x, y in map_axes:
@@ -162,10 +186,12 @@ def build_report(
     toc = "".join(f'<li><a href="#{key}">{title}</a></li>' for key, title in PAGE_SECTIONS)
     body = {
         "campaign": _manifest_rows(manifest),
-        "shortlist": f"<p>Design lift coefficient cl = {design_cl:g}.</p>" + table_html(shortlist),
+        "shortlist": _shortlist_html(shortlist, design_cl, constraints or {}),
         "polars": "".join(polar_html),
         "maps": "".join(map_html),
-        "convergence": table_html(convergence_table(points)) + failed_html,
+        "convergence": table_html(
+            convergence if convergence is not None else convergence_table(points)
+        ) + failed_html,
         "cautions": f'<p class="caution">{html.escape(CAUTION_TEXT)}</p>',
     }
     parts = [
@@ -180,3 +206,43 @@ def build_report(
         parts.append(f'<section id="{key}"><h2>{title}</h2>{body[key]}</section>')
     parts.append("</body></html>")
     return "\n".join(parts) + "\n"
+
+
+def catalog_report(
+    catalog: Any,
+    design_cl: float,
+    *,
+    reynolds: float | None = None,
+    top: int = 10,
+    transition: str | None = "free",
+) -> str:
+    """The report of a catalog folder (or opened catalog) ranked at `design_cl`.
+
+    The campaign's own [design] constraints (thickness, |cm|, stall margin) apply, as in
+    `wakerank rank`.
+    """
+    from wakerank.catalog import Catalog, open_catalog
+    from wakerank.catalog_plots import design_points
+    from wakerank.ranking import rank
+
+    opened = catalog if isinstance(catalog, Catalog) else open_catalog(catalog)
+    wanted = opened.manifest.get("design") or {}
+    constraints = {
+        key: wanted.get(key) for key in ("min_thickness", "max_abs_cm", "min_stall_margin")
+    }
+    shortlist = rank(opened, [design_cl], reynolds=reynolds, top=top, transition=transition,
+                     **constraints)
+    ids = shortlist["section_id"].unique().to_list()
+    points = opened.points.filter(pl.col("section_id").is_in(ids)).collect()
+    sections = opened.sections.drop("x", "y").collect()
+    design = design_points(opened, design_cl)
+    return build_report(
+        manifest=opened.manifest,
+        points=points,
+        sections=sections,
+        design=design,
+        shortlist=shortlist,
+        design_cl=design_cl,
+        convergence=convergence_table(opened.points),
+        constraints=constraints,
+    )

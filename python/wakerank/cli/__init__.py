@@ -37,6 +37,9 @@ def _root(
 
 # Command modules register themselves on `app` when imported (one line each).
 from wakerank.cli import bench as _bench  # noqa: E402,F401
+from wakerank.cli import export as _export  # noqa: E402,F401
+from wakerank.cli import plot as _plot  # noqa: E402,F401
+from wakerank.cli import report as _report  # noqa: E402,F401
 
 def main() -> None:
     """Entry point of the console script."""
