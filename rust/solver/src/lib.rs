@@ -6,6 +6,7 @@
 
 pub mod batch;
 pub mod boundary_layer;
+pub mod coupling;
 pub mod error;
 pub mod geometry;
 pub mod inviscid;

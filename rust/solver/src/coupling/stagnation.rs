@@ -1,0 +1,233 @@
+//! Locating the stagnation point and splitting the surface into its two boundary layers.
+//!
+//! The surface nodes run from the upper trailing edge over the leading edge to the lower
+//! trailing edge. With the surface speed taken positive for flow running towards the upper
+//! trailing edge (decreasing node index), the stagnation point is where that speed changes
+//! from positive to negative. It moves with the angle of attack and, slightly, with the
+//! displacement effect, so it is located afresh in every outer iteration.
+
+use crate::error::{Result, SolverError};
+
+/// Where the surface speed vanishes: between `node` and `node + 1`, at arc length `s`.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct StagnationPoint {
+    /// Last node on the upper side.
+    pub node: usize,
+    /// Arc length of the stagnation point, measured like the panel nodes' arc length.
+    pub s: f64,
+    /// Coordinates of the stagnation point.
+    pub x: f64,
+    /// Coordinates of the stagnation point.
+    pub y: f64,
+}
+
+/// Node indices and arc length from the stagnation point of one side, ordered downstream.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SideNodes {
+    /// Surface node indices, first the one nearest the stagnation point, last the trailing edge.
+    pub nodes: Vec<usize>,
+    /// Arc length from the stagnation point of each node (strictly increasing, > 0).
+    pub s: Vec<f64>,
+}
+
+/// The two sides of the surface as seen by the boundary layer.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SurfaceSplit {
+    /// The stagnation point.
+    pub stagnation: StagnationPoint,
+    /// Upper side: nodes `stagnation.node` down to 0.
+    pub upper: SideNodes,
+    /// Lower side: nodes `stagnation.node + 1` up to the last.
+    pub lower: SideNodes,
+}
+
+/// Smallest arc length allowed between the stagnation point and the first station, chords;
+/// keeps the first station off the singular stagnation point.
+const MIN_FIRST_STATION_S: f64 = 1.0e-6;
+
+/// Locate the stagnation point from the signed surface speed `speed_upper_positive` (positive
+/// for flow towards the upper trailing edge) at nodes with arc length `arc` and coordinates
+/// `x`, `y`. Among several sign changes, the one nearest the leading edge (smallest x) wins,
+/// so that reversed flow near a trailing edge cannot capture it. The position is linearly
+/// interpolated between the two nodes that bracket the sign change.
+pub fn locate_stagnation(
+    speed_upper_positive: &[f64],
+    arc: &[f64],
+    x: &[f64],
+    y: &[f64],
+) -> Result<StagnationPoint> {
+    let n = speed_upper_positive.len();
+    if n < 4 || arc.len() != n || x.len() != n || y.len() != n {
+        return Err(SolverError::Internal(format!(
+            "stagnation search needs matching arrays of at least 4 nodes, got {n}"
+        )));
+    }
+    let mut best: Option<(f64, usize)> = None;
+    for i in 0..n - 1 {
+        let (a, b) = (speed_upper_positive[i], speed_upper_positive[i + 1]);
+        if a.is_nan() || b.is_nan() {
+            return Err(SolverError::Convergence(
+                "surface speed holds NaN: no stagnation point".into(),
+            ));
+        }
+        if a >= 0.0 && b < 0.0 {
+            let xm = x[i].min(x[i + 1]);
+            if best.is_none_or(|(bx, _)| xm < bx) {
+                best = Some((xm, i));
+            }
+        }
+    }
+    let Some((_, i)) = best else {
+        return Err(SolverError::Convergence(
+            "surface speed never changes sign from the upper to the lower side: no stagnation point"
+                .into(),
+        ));
+    };
+    let (a, b) = (speed_upper_positive[i], speed_upper_positive[i + 1]);
+    let t = a / (a - b);
+    Ok(StagnationPoint {
+        node: i,
+        s: arc[i] + t * (arc[i + 1] - arc[i]),
+        x: x[i] + t * (x[i + 1] - x[i]),
+        y: y[i] + t * (y[i + 1] - y[i]),
+    })
+}
+
+/// Split the surface nodes at the stagnation point into the upper and lower sides, each with
+/// its arc length measured from the stagnation point.
+pub fn split_surface(stagnation: StagnationPoint, arc: &[f64]) -> SurfaceSplit {
+    let k = stagnation.node;
+    let upper_nodes: Vec<usize> = (0..=k).rev().collect();
+    let lower_nodes: Vec<usize> = (k + 1..arc.len()).collect();
+    let side = |nodes: Vec<usize>, sign: f64| {
+        let mut s = Vec::with_capacity(nodes.len());
+        let mut last = 0.0_f64;
+        for &node in &nodes {
+            let value = (sign * (arc[node] - stagnation.s)).max(last + MIN_FIRST_STATION_S);
+            s.push(value);
+            last = value;
+        }
+        SideNodes { nodes, s }
+    };
+    SurfaceSplit {
+        stagnation,
+        upper: side(upper_nodes, -1.0),
+        lower: side(lower_nodes, 1.0),
+    }
+}
+
+/// Arc length from the stagnation point at which a side reaches `x_over_c` going downstream
+/// (first crossing), interpolated between nodes; `None` when the side never reaches it.
+/// Used to turn a trip position x/c into the boundary layer's own coordinate.
+pub fn arc_length_at_x(
+    side: &SideNodes,
+    x: &[f64],
+    x_over_c: f64,
+    stagnation_x: f64,
+) -> Option<f64> {
+    let mut prev_s = 0.0;
+    let mut prev_x = stagnation_x;
+    if x_over_c <= stagnation_x {
+        return Some(0.0);
+    }
+    for (&node, &s) in side.nodes.iter().zip(&side.s) {
+        let xn = x[node];
+        if xn >= x_over_c {
+            let t = if (xn - prev_x).abs() > 0.0 {
+                (x_over_c - prev_x) / (xn - prev_x)
+            } else {
+                1.0
+            };
+            return Some(prev_s + t.clamp(0.0, 1.0) * (s - prev_s));
+        }
+        prev_s = s;
+        prev_x = xn;
+    }
+    None
+}
+
+/// x of a side at arc length `s` from the stagnation point (linear between nodes).
+pub fn x_at_arc_length(side: &SideNodes, x: &[f64], s: f64, stagnation_x: f64) -> f64 {
+    let mut prev_s = 0.0;
+    let mut prev_x = stagnation_x;
+    for (&node, &sn) in side.nodes.iter().zip(&side.s) {
+        if sn >= s {
+            let t = if sn > prev_s {
+                (s - prev_s) / (sn - prev_s)
+            } else {
+                1.0
+            };
+            return prev_x + t.clamp(0.0, 1.0) * (x[node] - prev_x);
+        }
+        prev_s = sn;
+        prev_x = x[node];
+    }
+    prev_x
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A circle's surface speed in uniform flow is 2 sin(θ − α) (potential flow, any textbook,
+    /// e.g. Katz & Plotkin §3.11): the stagnation point sits at the angle α on the front.
+    fn circle(n: usize, alpha: f64) -> (Vec<f64>, Vec<f64>, Vec<f64>, Vec<f64>) {
+        // Nodes from the rear (θ = 0) counter-clockwise over the top to the rear again.
+        let mut x = Vec::new();
+        let mut y = Vec::new();
+        let mut q = Vec::new();
+        let mut s = Vec::new();
+        for i in 0..n {
+            let th = 2.0 * std::f64::consts::PI * (i as f64 + 0.5) / n as f64;
+            x.push(0.5 + 0.5 * th.cos());
+            y.push(0.5 * th.sin());
+            // Counter-clockwise tangential speed is −2 sin(θ − α); flow towards the upper
+            // rear (clockwise) is positive in our convention.
+            q.push(2.0 * (th - alpha).sin());
+            s.push(0.5 * th);
+        }
+        (q, s, x, y)
+    }
+
+    #[test]
+    fn stagnation_on_a_circle_follows_the_angle_of_attack() {
+        for alpha_deg in [-8.0_f64, 0.0, 5.0, 12.0] {
+            let alpha = alpha_deg.to_radians();
+            let (q, s, x, y) = circle(181, alpha);
+            let st = locate_stagnation(&q, &s, &x, &y).unwrap();
+            // Front stagnation at θ = π + α, arc length 0.5 (π + α).
+            let expected = 0.5 * (std::f64::consts::PI + alpha);
+            assert!(
+                (st.s - expected).abs() < 1e-3,
+                "{alpha_deg}: {} vs {expected}",
+                st.s
+            );
+            let split = split_surface(st, &s);
+            assert_eq!(split.upper.nodes.len() + split.lower.nodes.len(), 181);
+            assert!(split.upper.s.windows(2).all(|w| w[1] > w[0]));
+            assert!(split.lower.s.windows(2).all(|w| w[1] > w[0]));
+            assert!(split.upper.s[0] > 0.0 && split.lower.s[0] > 0.0);
+            assert_eq!(*split.upper.nodes.last().unwrap(), 0);
+        }
+    }
+
+    #[test]
+    fn no_sign_change_is_an_error() {
+        let q = vec![1.0; 10];
+        let s: Vec<f64> = (0..10).map(|i| i as f64).collect();
+        assert!(locate_stagnation(&q, &s, &s, &s).is_err());
+    }
+
+    #[test]
+    fn trip_position_maps_to_arc_length() {
+        let side = SideNodes {
+            nodes: vec![0, 1, 2],
+            s: vec![0.1, 0.2, 0.3],
+        };
+        let x = [0.1, 0.2, 0.3];
+        let s = arc_length_at_x(&side, &x, 0.25, 0.0).unwrap();
+        assert!((s - 0.25).abs() < 1e-12);
+        assert!((x_at_arc_length(&side, &x, 0.25, 0.0) - 0.25).abs() < 1e-12);
+        assert!(arc_length_at_x(&side, &x, 0.5, 0.0).is_none());
+    }
+}
