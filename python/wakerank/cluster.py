@@ -104,7 +104,7 @@ def connect(target: ClusterTarget | str) -> Iterator[Any]:
             n_workers=target.local_workers,
             threads_per_worker=1,
             processes=True,
-            dashboard_address=None,
+            dashboard_address=":0",  # any free port: no clash with other clusters
         ) as cluster, distributed.Client(cluster) as client:
             yield client
         return
@@ -204,3 +204,65 @@ def _describe_failure(future: Any) -> str:
     kind = type(exc).__name__
     return f"{kind}: {exc}" if str(exc) else kind
 
+
+
+class DaskBackend:
+    """Campaign-runner backend that runs `wakerank.runner.run_chunk` as Dask tasks.
+
+    ``DaskBackend("local:4")``, ``DaskBackend("tcp://head:8786")`` or ``DaskBackend(client)``
+    for a `distributed.Client` you opened yourself (on a dask-jobqueue cluster, say; it is
+    left open). A client for a target string opens when `run` starts and closes (with its
+    local cluster) when `run` ends. Yields a `ChunkResult` per finished chunk and a
+    `ChunkFailure` per chunk that failed on every try, like every backend of the runner.
+    """
+
+    def __init__(
+        self,
+        cluster: str | ClusterTarget | Any,
+        *,
+        retries: int = DEFAULT_RETRIES,
+        analysis_function: Callable[..., Any] | None = None,
+    ):
+        if isinstance(cluster, str):
+            cluster = parse_target(cluster)
+        self._target = cluster if isinstance(cluster, ClusterTarget) else None
+        self._client = None if self._target is not None else cluster
+        self.retries = retries
+        self.analysis_function = analysis_function
+
+    @property
+    def workers(self) -> int:
+        """Worker threads, where known before connecting (local clusters, open clients)."""
+        if self._client is not None:
+            return _total_threads(self._client)
+        if self._target is not None and self._target.local_workers is not None:
+            return self._target.local_workers
+        raise AttributeError("workers of a remote scheduler are known only once connected")
+
+    def describe(self) -> str:
+        """Where the chunks run, for progress output."""
+        if self._target is not None:
+            return self._target.describe()
+        return f"Dask client {getattr(self._client, 'scheduler_info', lambda: {})().get('address', '')}"
+
+    def run(self, chunks: Any, out_dir: str) -> Iterator[Any]:
+        """Run every chunk on the cluster; yield one outcome per chunk as it ends."""
+        if self._client is not None:
+            yield from self._run_with(self._client, chunks, out_dir)
+            return
+        with connect(self._target) as client:  # type: ignore[arg-type]
+            yield from self._run_with(client, chunks, out_dir)
+
+    def _run_with(self, client: Any, chunks: Any, out_dir: str) -> Iterator[Any]:
+        import functools
+
+        from wakerank.runner import ChunkFailure, run_chunk
+
+        task: Callable[..., Any] = run_chunk
+        if self.analysis_function is not None:
+            task = functools.partial(run_chunk, analysis_function=self.analysis_function)
+        for outcome in run_chunks(client, task, chunks, str(out_dir), retries=self.retries):
+            if outcome.failed:
+                yield ChunkFailure(outcome.chunk.chunk_id, outcome.error or "failed")
+            else:
+                yield outcome.result

@@ -101,7 +101,8 @@ def _repanel(x: np.ndarray, y: np.ndarray, points: int) -> tuple[np.ndarray, np.
 
     if points < 16:
         raise InputError(f"--points {points}: need at least 16 points around the section")
-    section = wakerank.Section.from_coordinates(x, y).repanel(points)
+    # a closed loop of N points has N - 1 panels
+    section = wakerank.Section.from_coordinates(x, y).repanel(points - 1)
     return np.asarray(section.x, dtype=float), np.asarray(section.y, dtype=float)
 
 
