@@ -23,4 +23,17 @@ class InternalError(WakerankError, RuntimeError):
     """An invariant of the core was violated (a bug: please report it)."""
 
 
-__all__ = ["WakerankError", "GeometryError", "InputError", "ConvergenceError", "InternalError"]
+class CampaignError(WakerankError, ValueError):
+    """A campaign file is malformed: the message names the file, the key path and what was
+    expected (for example ``campaign.toml: sections[2].thickness.count: expected an integer
+    >= 1, got 'four'``)."""
+
+
+__all__ = [
+    "WakerankError",
+    "GeometryError",
+    "InputError",
+    "ConvergenceError",
+    "InternalError",
+    "CampaignError",
+]

@@ -1,0 +1,119 @@
+"""`wakerank rank DIR`: the sections with the least drag at the design lift, as a table."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+import typer
+from rich.console import Console
+from rich.table import Table
+
+from wakerank.cli import app
+from wakerank.cli._errors import ErrorsAsMessages
+
+
+@app.command("rank")
+def rank_command(
+    catalog: Path = typer.Argument(..., help="Catalog folder written by `wakerank run`."),
+    cl: list[float] = typer.Option([], "--cl", help="Design lift coefficient; repeat for several [default: the campaign's]."),
+    weights: str | None = typer.Option(None, "--weights", help="Comma-separated weights, one per --cl (e.g. 0.3,0.7)."),
+    reynolds: float | None = typer.Option(None, "--reynolds", help="Only this Reynolds number."),
+    mach: float | None = typer.Option(None, "--mach", help="Only this Mach number."),
+    min_thickness: float | None = typer.Option(None, "--min-thickness", help="Least thickness (chord fraction)."),
+    max_abs_cm: float | None = typer.Option(None, "--max-abs-cm", help="Largest |cm about c/4| at every design cl."),
+    min_stall_margin: float | None = typer.Option(None, "--min-stall-margin", help="Least cl_max - design cl."),
+    transition: str = typer.Option("free", "--transition", help="free, tripped, a trip label, or any."),
+    top: int = typer.Option(20, "--top", min=1, help="Rows to keep."),
+    out: Path | None = typer.Option(None, "--out", help="Write the shortlist as Parquet."),
+) -> None:
+    """Rank sections by (weighted) profile drag at the design cl, with constraints."""
+    from wakerank.catalog import open_catalog
+    from wakerank.ranking import rank
+
+    with ErrorsAsMessages():
+        opened = open_catalog(catalog)
+        design = opened.manifest.get("design") or {}
+        options = _defaults_from_design(design)
+        targets = list(cl) or options.pop("cl", None)
+        if not targets:
+            raise ValueError("give a design lift coefficient with --cl (the campaign has no [design])")
+        given_weights = _parse_weights(weights) if weights is not None else None
+        if given_weights is None and not cl:
+            given_weights = options.get("weights")
+        shortlist = rank(
+            opened,
+            targets,
+            reynolds=reynolds,
+            mach=mach,
+            min_thickness=min_thickness if min_thickness is not None else options.get("min_thickness"),
+            max_abs_cm=max_abs_cm if max_abs_cm is not None else options.get("max_abs_cm"),
+            min_stall_margin=(
+                min_stall_margin if min_stall_margin is not None else options.get("min_stall_margin")
+            ),
+            weights=given_weights,
+            top=top,
+            transition=None if transition == "any" else transition,
+        )
+        if out is not None:
+            out.parent.mkdir(parents=True, exist_ok=True)
+            shortlist.write_parquet(out)
+    print_shortlist(shortlist, targets, Console())
+    if out is not None:
+        typer.echo(f"shortlist written to {out}")
+
+
+def _defaults_from_design(design: dict[str, Any]) -> dict[str, Any]:
+    from wakerank.campaign import Design, values_of
+
+    if not design:
+        return {}
+    model = Design.model_validate(design)
+    return {
+        "cl": values_of(model.cl),
+        "weights": model.weights,
+        "min_thickness": model.min_thickness,
+        "max_abs_cm": model.max_abs_cm,
+        "min_stall_margin": model.min_stall_margin,
+    }
+
+
+def _parse_weights(text: str) -> list[float]:
+    try:
+        return [float(part) for part in text.split(",") if part.strip()]
+    except ValueError:
+        raise ValueError(f"--weights: expected comma-separated numbers, got {text!r}") from None
+
+
+def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> None:
+    """The ranked table as rich renders it (the columns an engineer reads first)."""
+    from wakerank.ranking import design_column
+
+    several = len(targets) > 1
+    title = "least drag at cl = " + ", ".join(f"{t:g}" for t in targets)
+    table = Table(title=title)
+    for header in ("#", "section", "t/c", "Re", "transition", "weighted cd" if several else "cd",
+                   "L/D", "cl_max", "stall margin"):
+        table.add_column(header, justify="left" if header in ("section", "transition") else "right")
+    if several:
+        for t in targets:
+            table.add_column(f"cd @ {t:g}", justify="right")
+    table.add_column("cm_c4" if not several else "max |cm_c4|", justify="right")
+    for row in shortlist.iter_rows(named=True):
+        cms = [row[design_column("cm_c4", t)] for t in targets]
+        cm = cms[0] if not several else max(abs(c) for c in cms)
+        margin = f"{row['stall_margin']:.2f}" + ("" if row["stall_reached"] else "+")
+        cells = [
+            str(row["rank"]), str(row["label"]), f"{row['thickness']:.3f}",
+            f"{row['reynolds']:.3g}", str(row["transition"]), f"{row['weighted_cd']:.5f}",
+            f"{row['l_over_d']:.1f}", f"{row['cl_max']:.2f}", margin,
+        ]
+        if several:
+            cells += [f"{row[design_column('cd', t)]:.5f}" for t in targets]
+        cells.append(f"{cm:.3f}")
+        table.add_row(*cells)
+    console.print(table)
+    if shortlist.height == 0:
+        console.print("no section meets the constraints at these conditions")
+    elif not all(shortlist["stall_reached"]):
+        console.print("+ cl_max not reached within the angle range: the stall margin is a lower bound")
