@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from wakerank._core import core_version as _core_version
 from wakerank.errors import (
+    CampaignError,
     ConvergenceError,
     GeometryError,
     InputError,
@@ -17,6 +18,12 @@ from wakerank.errors import (
 
 __version__: str = _core_version()
 
+# Campaigns, catalogs and ranking (imported after __version__, which the runner records).
+from wakerank.campaign import load_campaign  # noqa: E402
+from wakerank.catalog import Catalog, open_catalog  # noqa: E402
+from wakerank.ranking import rank  # noqa: E402
+from wakerank.session import run_campaign  # noqa: E402
+
 __all__ = [
     "__version__",
     "WakerankError",
@@ -24,4 +31,10 @@ __all__ = [
     "InputError",
     "ConvergenceError",
     "InternalError",
+    "CampaignError",
+    "load_campaign",
+    "run_campaign",
+    "Catalog",
+    "open_catalog",
+    "rank",
 ]

@@ -14,7 +14,7 @@ import difflib
 import math
 import sys
 from pathlib import Path
-from typing import Annotated, Any, Literal, Union
+from typing import Annotated, Any, Literal
 
 from pydantic import (
     BaseModel,
@@ -66,7 +66,7 @@ class StepRange(_Model):
     step: float = Field(gt=0)
 
     @model_validator(mode="after")
-    def _not_empty(self) -> "StepRange":
+    def _not_empty(self) -> StepRange:
         if self.stop < self.start:
             raise ValueError(
                 f"empty range: from = {self.start:g} is above to = {self.stop:g} "
@@ -100,12 +100,10 @@ def _value_set_kind(value: Any) -> str | None:
 _VALUE_SET_TAGS = ("number", "list", "count", "step")
 
 ValueSet = Annotated[
-    Union[
-        Annotated[float, Tag("number")],
-        Annotated[list[float], Field(min_length=1), Tag("list")],
-        Annotated[CountRange, Tag("count")],
-        Annotated[StepRange, Tag("step")],
-    ],
+    Annotated[float, Tag("number")]
+    | Annotated[list[float], Field(min_length=1), Tag("list")]
+    | Annotated[CountRange, Tag("count")]
+    | Annotated[StepRange, Tag("step")],
     Discriminator(
         _value_set_kind,
         custom_error_type="value_set",
@@ -143,7 +141,7 @@ class NacaCodesFamily(_Model):
     codes: list[Annotated[str, Field(pattern=r"^\d{4,5}$")]] = Field(min_length=1)
 
     @model_validator(mode="after")
-    def _five_digits_for_naca5(self) -> "NacaCodesFamily":
+    def _five_digits_for_naca5(self) -> NacaCodesFamily:
         if self.family == "naca5":
             for i, code in enumerate(self.codes):
                 if len(code) != 5:
@@ -158,7 +156,7 @@ class Bounds(_Model):
     high: list[float] = Field(min_length=1)
 
     @model_validator(mode="after")
-    def _consistent(self) -> "Bounds":
+    def _consistent(self) -> Bounds:
         if len(self.low) != len(self.high):
             raise ValueError(
                 f"low has {len(self.low)} weights but high has {len(self.high)}: "
@@ -196,7 +194,7 @@ class FileFamily(_Model):
 
 
 SectionFamily = Annotated[
-    Union[Naca4Family, NacaCodesFamily, CstFamily, FileFamily],
+    Naca4Family | NacaCodesFamily | CstFamily | FileFamily,
     Field(discriminator="family"),
 ]
 
@@ -208,7 +206,7 @@ class Trip(_Model):
     lower: float | None = Field(default=None, gt=0.0, le=1.0)
 
     @model_validator(mode="after")
-    def _one_side_at_least(self) -> "Trip":
+    def _one_side_at_least(self) -> Trip:
         if self.upper is None and self.lower is None:
             raise ValueError("a trip needs upper, lower or both (chord fractions)")
         return self
@@ -224,7 +222,7 @@ class Trip(_Model):
 
 
 Transition = Annotated[
-    Union[Annotated[Literal["free"], Tag("free")], Annotated[Trip, Tag("trip")]],
+    Annotated[Literal["free"], Tag("free")] | Annotated[Trip, Tag("trip")],
     Discriminator(
         lambda v: "free" if isinstance(v, str) else "trip" if isinstance(v, (dict, Trip)) else None,
         custom_error_type="transition",
@@ -289,7 +287,7 @@ class Conditions(_Model):
         return value
 
     @model_validator(mode="after")
-    def _one_transition_model(self) -> "Conditions":
+    def _one_transition_model(self) -> Conditions:
         if self.n_factor is not None and self.turbulence_intensity is not None:
             raise ValueError(
                 "give either n_factor or turbulence_intensity (the core derives the critical "
@@ -308,7 +306,7 @@ class Design(_Model):
     min_stall_margin: float | None = Field(default=None, ge=0.0)
 
     @model_validator(mode="after")
-    def _weights_match(self) -> "Design":
+    def _weights_match(self) -> Design:
         if self.weights is not None and len(self.weights) != len(values_of(self.cl)):
             raise ValueError(
                 f"weights has {len(self.weights)} entries but cl has {len(values_of(self.cl))}: "
@@ -377,7 +375,7 @@ _EXPECTED_BY_KEY = {
     "panels": "an integer between 40 and 1000",
     "chunk_size": "an integer >= 1",
     "name": "a name of letters, digits, '.', '_' or '-'",
-    "codes": "a list of NACA codes such as \"2412\" or \"23012\"",
+    "codes": 'a list of NACA codes such as "2412" or "23012"',
     "paths": "a list of file globs",
 }
 
@@ -400,16 +398,37 @@ _TYPE_PHRASES = {
 
 def _known_keys() -> set[str]:
     keys: set[str] = set()
-    for model in (Campaign, Naca4Family, NacaCodesFamily, CstFamily, FileFamily, Bounds,
-                  Sample, Conditions, Trip, Design, CountRange, StepRange):
+    for model in (
+        Campaign,
+        Naca4Family,
+        NacaCodesFamily,
+        CstFamily,
+        FileFamily,
+        Bounds,
+        Sample,
+        Conditions,
+        Trip,
+        Design,
+        CountRange,
+        StepRange,
+    ):
         for name, field in model.model_fields.items():
             keys.add(field.alias or name)
     return keys
 
 
 #: Fields holding a ValueSet: the union tag after them never appears in key paths.
-_VALUE_SET_FIELDS = {"camber", "camber_position", "thickness", "reynolds", "mach", "n_factor",
-                     "turbulence_intensity", "alpha_deg", "cl"}
+_VALUE_SET_FIELDS = {
+    "camber",
+    "camber_position",
+    "thickness",
+    "reynolds",
+    "mach",
+    "n_factor",
+    "turbulence_intensity",
+    "alpha_deg",
+    "cl",
+}
 _FAMILY_TAGS = {"naca4", "naca", "naca5", "cst", "file"}
 
 
@@ -425,7 +444,12 @@ def _key_path(loc: tuple[Any, ...]) -> str:
             continue
         if item in _VALUE_SET_TAGS and before in _VALUE_SET_FIELDS:
             continue
-        if item in ("free", "trip") and isinstance(before, int) and i >= 2 and loc[i - 2] == "transition":
+        if (
+            item in ("free", "trip")
+            and isinstance(before, int)
+            and i >= 2
+            and loc[i - 2] == "transition"
+        ):
             continue
         if "[" in item or "," in item:  # union member names such as list[float]
             continue
@@ -436,6 +460,8 @@ def _key_path(loc: tuple[Any, ...]) -> str:
 def describe_first_error(exc: ValidationError) -> str:
     """One line for the first validation error: key path, what was expected, what was given."""
     errors = exc.errors(include_url=False)
+    # A misspelt key also makes the intended key "missing": name the misspelling first.
+    errors = sorted(errors, key=lambda e: e["type"] != "extra_forbidden")
     error = errors[0]
     text = _describe(error)
     if len(errors) > 1:
@@ -487,8 +513,10 @@ def _describe(error: dict[str, Any]) -> str:
     }
     if kind in bounds:
         limit = next(iter(ctx.values()))
-        noun = "an integer" if isinstance(given, int) and not isinstance(given, bool) else "a number"
-        return f"{where}expected {noun} {bounds[kind]} {limit}, got {given!r}"
+        noun = (
+            "an integer" if isinstance(limit, int) and not isinstance(limit, bool) else "a number"
+        )
+        return f"{where}expected {noun} {bounds[kind]} {limit:g}, got {given!r}"
     if kind == "too_short":
         return f"{where}expected at least {ctx.get('min_length', 1)} entry, got an empty list"
     if kind == "literal_error":
@@ -497,19 +525,19 @@ def _describe(error: dict[str, Any]) -> str:
 
 
 __all__ = [
+    "DEFAULT_CHUNK_SIZE",
     "Campaign",
-    "LoadedCampaign",
     "Conditions",
+    "CstFamily",
     "Design",
+    "FileFamily",
+    "LoadedCampaign",
     "Naca4Family",
     "NacaCodesFamily",
-    "CstFamily",
-    "FileFamily",
     "Trip",
     "ValueSet",
-    "values_of",
-    "parse_campaign",
-    "load_campaign",
     "describe_first_error",
-    "DEFAULT_CHUNK_SIZE",
+    "load_campaign",
+    "parse_campaign",
+    "values_of",
 ]

@@ -256,7 +256,7 @@ def _naca4_sections(family: Naca4Family, where: str) -> list[SectionSpec]:
 def _naca4_label(camber: float, position: float, thickness: float) -> str:
     digits = (camber * 100, position * 10, thickness * 100)
     if all(abs(d - round(d)) < 1e-9 for d in digits) and camber >= 0 and round(digits[1]) < 10:
-        m, p, t = (int(round(d)) for d in digits)
+        m, p, t = (round(d) for d in digits)
         if camber == 0:
             p = 0
         if t < 100:
@@ -385,14 +385,14 @@ def _build(
 
 
 __all__ = [
-    "SectionSpec",
-    "Condition",
+    "DEFAULT_N_FACTOR",
+    "CampaignPlan",
     "Case",
     "ChunkSpec",
-    "CampaignPlan",
+    "Condition",
+    "SectionSpec",
     "expand",
     "expand_conditions",
     "latin_hypercube",
     "stable_hash",
-    "DEFAULT_N_FACTOR",
 ]

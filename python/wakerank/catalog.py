@@ -179,18 +179,26 @@ def _design_rows(points: pl.LazyFrame, design_cl: Sequence[float]) -> pl.DataFra
 
 
 #: Settings that must match for a tripped and a free run to be compared.
-_PAIRING = ["section_id", "reynolds", "mach", "n_factor", "turbulence_intensity", "panels",
-            "design_cl"]
+_PAIRING = [
+    "section_id",
+    "reynolds",
+    "mach",
+    "n_factor",
+    "turbulence_intensity",
+    "panels",
+    "design_cl",
+]
 
 
 def with_roughness_sensitivity(table: pl.LazyFrame) -> pl.LazyFrame:
     """Add roughness_sensitivity = cd tripped / cd free (see :func:`design_table`)."""
     keyed = table.with_columns(
-        [pl.col(c).fill_null(-1.0).alias(f"_k_{c}") for c in _PAIRING if c not in
-         ("section_id",)]
+        [pl.col(c).fill_null(-1.0).alias(f"_k_{c}") for c in _PAIRING if c not in ("section_id",)]
     )
     keys = ["section_id", *[f"_k_{c}" for c in _PAIRING if c != "section_id"]]
-    free = keyed.filter(pl.col("transition") == "free").select(*keys, pl.col("cd").alias("_cd_free"))
+    free = keyed.filter(pl.col("transition") == "free").select(
+        *keys, pl.col("cd").alias("_cd_free")
+    )
     keyed = keyed.join(free, on=keys, how="left")
     ratio = pl.when(pl.col("transition") != "free").then(pl.col("cd") / pl.col("_cd_free"))
     keyed = keyed.with_columns(ratio.alias("_ratio"))
@@ -205,17 +213,17 @@ def with_roughness_sensitivity(table: pl.LazyFrame) -> pl.LazyFrame:
 
 
 __all__ = [
-    "Catalog",
-    "open_catalog",
-    "scan_points",
-    "part_files",
-    "section_rows",
-    "write_sections",
-    "design_table",
-    "with_roughness_sensitivity",
-    "write_table_atomically",
-    "MANIFEST",
-    "SECTIONS",
     "DESIGN",
+    "MANIFEST",
     "POINTS",
+    "SECTIONS",
+    "Catalog",
+    "design_table",
+    "open_catalog",
+    "part_files",
+    "scan_points",
+    "section_rows",
+    "with_roughness_sensitivity",
+    "write_sections",
+    "write_table_atomically",
 ]

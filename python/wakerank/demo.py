@@ -43,8 +43,9 @@ def demo_campaign_text() -> str:
     return resources.files("wakerank").joinpath("data/demo.toml").read_text(encoding="utf-8")
 
 
-def run_demo(out_dir: str | Path = "wakerank-demo", workers: int | None = None,
-             progress: bool = True) -> DemoResult:
+def run_demo(
+    out_dir: str | Path = "wakerank-demo", workers: int | None = None, progress: bool = True
+) -> DemoResult:
     """Run the demo campaign into `out_dir` (resumable like any run) and plot its shortlist."""
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
@@ -71,8 +72,9 @@ def run_demo(out_dir: str | Path = "wakerank-demo", workers: int | None = None,
     shortlist.write_parquet(shortlist_file)
     plot_file = out / "shortlist-drag-polars.png"
     plot_shortlist_polars(catalog_dir, shortlist, design_cl, plot_file)
-    return DemoResult(out, catalog_dir, campaign_file, shortlist_file, plot_file, shortlist,
-                      summary, design_cl)
+    return DemoResult(
+        out, catalog_dir, campaign_file, shortlist_file, plot_file, shortlist, summary, design_cl
+    )
 
 
 def plot_shortlist_polars(
@@ -97,15 +99,22 @@ def plot_shortlist_polars(
             .sort("alpha_deg")
             .collect()
         )
-        ax.plot(polar["cd"], polar["cl"], marker="o", markersize=3,
-                label=f"#{row['rank']} {row['label']} (t/c {row['thickness']:.2f})")
+        ax.plot(
+            polar["cd"],
+            polar["cl"],
+            marker="o",
+            markersize=3,
+            label=f"#{row['rank']} {row['label']} (t/c {row['thickness']:.2f})",
+        )
         n_text = f"N = {row['n_factor']:g}" if row["n_factor"] is not None else "Tu set"
         conditions = f"Re = {row['reynolds']:.3g}, M = {row['mach']:g}, {row['transition']} transition ({n_text})"
     for target in design_cl:
         ax.axhline(target, color="grey", linestyle="--", linewidth=0.8)
     ax.set_xlabel("section drag coefficient cd (-)")
     ax.set_ylabel("section lift coefficient cl (-)")
-    ax.set_title(f"Shortlist drag polars, design cl = {', '.join(f'{c:g}' for c in design_cl)}\n{conditions}")
+    ax.set_title(
+        f"Shortlist drag polars, design cl = {', '.join(f'{c:g}' for c in design_cl)}\n{conditions}"
+    )
     ax.grid(True, alpha=0.3)
     if shortlist.height:
         ax.legend(fontsize=8, loc="lower right")
@@ -116,5 +125,4 @@ def plot_shortlist_polars(
     plt.close(fig)
 
 
-
-__all__ = ["DemoResult", "run_demo", "demo_campaign_text", "plot_shortlist_polars", "DEMO_REYNOLDS"]
+__all__ = ["DEMO_REYNOLDS", "DemoResult", "demo_campaign_text", "plot_shortlist_polars", "run_demo"]

@@ -109,15 +109,19 @@ def polar_features(prepared: pl.LazyFrame) -> pl.LazyFrame:
     with_min = prepared.with_columns(cd_pre.min().over("_polar").alias("cd_min"))
     in_bucket = pl.col("_pre_stall") & (pl.col("cd") <= DRAG_BUCKET_FACTOR * pl.col("cd_min"))
     bucket_cl = pl.when(in_bucket).then(pl.col("cl"))
-    return with_min.group_by("_polar").agg(
-        pl.col("section_id").first(),
-        pl.col("condition_id").first(),
-        pl.col("cl_max").first(),
-        pl.col("alpha_cl_max_deg").first(),
-        pl.col("stall_reached").first(),
-        pl.col("cd_min").first(),
-        (bucket_cl.max() - bucket_cl.min()).alias("drag_bucket_width"),
-    ).drop("_polar")
+    return (
+        with_min.group_by("_polar")
+        .agg(
+            pl.col("section_id").first(),
+            pl.col("condition_id").first(),
+            pl.col("cl_max").first(),
+            pl.col("alpha_cl_max_deg").first(),
+            pl.col("stall_reached").first(),
+            pl.col("cd_min").first(),
+            (bucket_cl.max() - bucket_cl.min()).alias("drag_bucket_width"),
+        )
+        .drop("_polar")
+    )
 
 
 def at_design_cl(prepared: pl.LazyFrame, design_cl: Sequence[float]) -> pl.LazyFrame:

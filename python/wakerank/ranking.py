@@ -51,7 +51,9 @@ def rank(
     Constraints: thickness >= `min_thickness`; |cm_c4| <= `max_abs_cm` at every design cl;
     cl_max - max(design cl) >= `min_stall_margin`. Returns at most `top` rows (all if None).
     """
-    catalog = catalog_or_dir if isinstance(catalog_or_dir, Catalog) else open_catalog(catalog_or_dir)
+    catalog = (
+        catalog_or_dir if isinstance(catalog_or_dir, Catalog) else open_catalog(catalog_or_dir)
+    )
     targets = _design_cls(cl)
     w = _weights(weights, len(targets))
     if top is not None and top < 1:
@@ -77,9 +79,7 @@ def rank(
     table = table.join(conditions, on="condition_id", how="left").join(
         sections, on="section_id", how="left"
     )
-    weighted = sum(
-        (wi * pl.col(design_column("cd", t)) for wi, t in zip(w, targets)), pl.lit(0.0)
-    )
+    weighted = sum((wi * pl.col(design_column("cd", t)) for wi, t in zip(w, targets)), pl.lit(0.0))
     table = table.with_columns(
         weighted.alias("weighted_cd"),
         (pl.col("cl_max") - max(targets)).alias("stall_margin"),
@@ -97,11 +97,27 @@ def rank(
         table = table.head(top)
     per_point = [design_column(n, t) for t in targets for n in PER_DESIGN_POINT]
     result = table.select(
-        "section_id", "label", "family", "thickness", "camber",
-        "reynolds", "mach", "n_factor", "turbulence_intensity", "transition",
-        "weighted_cd", "l_over_d", "cl_max", "alpha_cl_max_deg", "stall_reached",
-        "stall_margin", "cd_min", "drag_bucket_width", *per_point,
-        "condition_id", "parameters",
+        "section_id",
+        "label",
+        "family",
+        "thickness",
+        "camber",
+        "reynolds",
+        "mach",
+        "n_factor",
+        "turbulence_intensity",
+        "transition",
+        "weighted_cd",
+        "l_over_d",
+        "cl_max",
+        "alpha_cl_max_deg",
+        "stall_reached",
+        "stall_margin",
+        "cd_min",
+        "drag_bucket_width",
+        *per_point,
+        "condition_id",
+        "parameters",
     ).collect()
     return result.with_row_index("rank", offset=1).with_columns(pl.col("rank").cast(pl.Int32))
 
@@ -155,4 +171,4 @@ def _select_points(
     return selected
 
 
-__all__ = ["rank", "design_column", "PER_DESIGN_POINT"]
+__all__ = ["PER_DESIGN_POINT", "design_column", "rank"]

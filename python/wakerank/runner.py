@@ -41,6 +41,7 @@ from wakerank.errors import WakerankError
 #: one row per angle. The default is :func:`wakerank.analyze`.
 AnalysisFunction = Callable[..., pl.DataFrame]
 
+
 @dataclass(frozen=True)
 class ChunkResult:
     """Counts of one finished chunk (its rows are on disk, never in memory)."""
@@ -230,7 +231,9 @@ class LocalBackend:
     boundary without writing anything.
     """
 
-    def __init__(self, workers: int | None = None, analysis_function: AnalysisFunction | None = None):
+    def __init__(
+        self, workers: int | None = None, analysis_function: AnalysisFunction | None = None
+    ):
         self.workers = max(1, workers or os.cpu_count() or 1)
         self.analysis_function = analysis_function
 

@@ -15,7 +15,6 @@ import os
 import platform
 import shutil
 import time
-from collections.abc import Callable
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
 from pathlib import Path
@@ -113,8 +112,12 @@ def run_campaign(
     console = console or Console(stderr=True)
     local = LocalBackend(workers, analysis_function)
     backend = backend or local
-    summary = RunSummary(out_dir=out, cases=plan.case_count, chunks=len(plan.chunks),
-                         workers=getattr(backend, "workers", local.workers))
+    summary = RunSummary(
+        out_dir=out,
+        cases=plan.case_count,
+        chunks=len(plan.chunks),
+        workers=getattr(backend, "workers", local.workers),
+    )
 
     done, pending = _scan_existing(plan, out, summary)
     for result in done:
@@ -166,8 +169,13 @@ def _run_pending(
     )
     started = time.perf_counter()
     with Progress(*columns, console=console, disable=not show, transient=False) as bar:
-        task = bar.add_task("running", total=summary.cases, completed=done_before,
-                            converged=_share(summary), rate="-")
+        task = bar.add_task(
+            "running",
+            total=summary.cases,
+            completed=done_before,
+            converged=_share(summary),
+            rate="-",
+        )
         results = backend.run(pending, str(out))
         try:
             for outcome in results:
@@ -183,8 +191,12 @@ def _run_pending(
                 summary.core_seconds += outcome.core_seconds
                 elapsed = time.perf_counter() - started
                 rate = summary.computed_cases / elapsed if elapsed > 0 else 0.0
-                bar.update(task, advance=len(chunk.cases) if chunk else outcome.cases,
-                           converged=_share(summary), rate=f"{rate:.1f}")
+                bar.update(
+                    task,
+                    advance=len(chunk.cases) if chunk else outcome.cases,
+                    converged=_share(summary),
+                    rate=f"{rate:.1f}",
+                )
         finally:
             close = getattr(results, "close", None)
             if close is not None:
@@ -206,8 +218,11 @@ def _count(summary: RunSummary, result: ChunkResult) -> None:
 def _cases_done(summary: RunSummary, plan: CampaignPlan) -> int:
     per_chunk = {c.chunk_id: len(c.cases) for c in plan.chunks}
     failed = {f["chunk_id"] for f in summary.failed_chunks}
-    return sum(n for cid, n in per_chunk.items()
-               if cid not in failed and part_path(summary.out_dir, cid).exists())
+    return sum(
+        n
+        for cid, n in per_chunk.items()
+        if cid not in failed and part_path(summary.out_dir, cid).exists()
+    )
 
 
 def _scan_existing(
@@ -306,7 +321,6 @@ def _manifest(
         },
         "failed_chunks": summary.failed_chunks,
     }
-
 
 
 __all__ = ["RunInterrupted", "RunSummary", "default_out_dir", "run_campaign"]

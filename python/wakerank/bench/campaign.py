@@ -45,8 +45,9 @@ def bench_campaign(workers: int = 1) -> dict[str, float]:
         path.write_text(BENCH_CAMPAIGN, encoding="utf-8")
         loaded = load_campaign(path)
         tick = time.perf_counter()
-        summary = run_campaign(loaded, Path(tmp) / "catalog", workers=workers, fresh=True,
-                               progress=False)
+        summary = run_campaign(
+            loaded, Path(tmp) / "catalog", workers=workers, fresh=True, progress=False
+        )
         wall = time.perf_counter() - tick
     busy = wall * summary.workers
     return {

@@ -14,7 +14,12 @@ import numpy as np
 import polars as pl
 
 from wakerank.atomic import write_json_atomically
-from wakerank.catalog_schema import CATALOG_FORMAT, CATALOG_FORMAT_VERSION, POINT_SCHEMA, SECTION_SCHEMA
+from wakerank.catalog_schema import (
+    CATALOG_FORMAT,
+    CATALOG_FORMAT_VERSION,
+    POINT_SCHEMA,
+    SECTION_SCHEMA,
+)
 
 
 def write_synthetic_catalog(directory: Path, points: int = 1_000_000, seed: int = 3) -> int:
@@ -37,45 +42,67 @@ def write_synthetic_catalog(directory: Path, points: int = 1_000_000, seed: int 
         cd = 0.0055 + 0.012 * (cl - 0.4) ** 2 + 0.02 * t * (8e5 / reynolds) ** 0.5
         converged = rng.random(a.size) > 0.02
         separated = np.where(a > stall - 1.0, 0.8, np.nan)
-        frame = pl.DataFrame({
-            "section_id": np.repeat(ids, len(alphas)),
-            "condition_id": f"c{ci}",
-            "reynolds": reynolds,
-            "mach": 0.05,
-            "n_factor": 9.0,
-            "turbulence_intensity": None,
-            "transition": transition,
-            "trip_upper": 0.05 if transition != "free" else None,
-            "trip_lower": 0.05 if transition != "free" else None,
-            "panels": 160,
-            "alpha_deg": a,
-            "cl": cl,
-            "cd": cd,
-            "cd_squire_young": cd,
-            "cd_friction": 0.7 * cd,
-            "cd_pressure": 0.3 * cd,
-            "cm_c4": -0.025 - 1.2 * m,
-            "cp_min": -1.0 - cl,
-            "transition_upper": np.clip(0.6 - 0.05 * a, 0.02, 1.0),
-            "transition_lower": np.clip(0.5 + 0.05 * a, 0.02, 1.0),
-            "separation_upper": separated,
-            "separation_lower": None,
-            "converged": converged,
-            "iterations": 20,
-            "residual": 1e-7,
-            "error": None,
-        }).with_columns(pl.col("separation_upper").fill_nan(None))
+        frame = pl.DataFrame(
+            {
+                "section_id": np.repeat(ids, len(alphas)),
+                "condition_id": f"c{ci}",
+                "reynolds": reynolds,
+                "mach": 0.05,
+                "n_factor": 9.0,
+                "turbulence_intensity": None,
+                "transition": transition,
+                "trip_upper": 0.05 if transition != "free" else None,
+                "trip_lower": 0.05 if transition != "free" else None,
+                "panels": 160,
+                "alpha_deg": a,
+                "cl": cl,
+                "cd": cd,
+                "cd_squire_young": cd,
+                "cd_friction": 0.7 * cd,
+                "cd_pressure": 0.3 * cd,
+                "cm_c4": -0.025 - 1.2 * m,
+                "cp_min": -1.0 - cl,
+                "transition_upper": np.clip(0.6 - 0.05 * a, 0.02, 1.0),
+                "transition_lower": np.clip(0.5 + 0.05 * a, 0.02, 1.0),
+                "separation_upper": separated,
+                "separation_lower": None,
+                "converged": converged,
+                "iterations": 20,
+                "residual": 1e-7,
+                "error": None,
+            }
+        ).with_columns(pl.col("separation_upper").fill_nan(None))
         frame = frame.select([pl.col(k).cast(v) for k, v in POINT_SCHEMA.items()])
         frame.write_parquet(directory / "points" / f"part-synthetic{ci}.parquet")
         total += frame.height
-    sections = pl.DataFrame({
-        "section_id": ids, "family": "synthetic", "label": ids, "parameters": "{}",
-        "thickness": thickness, "camber": camber,
-    }).with_columns([pl.lit(None).cast(v).alias(k) for k, v in SECTION_SCHEMA.items()
-                     if k not in ("section_id", "family", "label", "parameters", "thickness", "camber")])
-    sections.select(list(SECTION_SCHEMA)).cast(SECTION_SCHEMA).write_parquet(directory / "sections.parquet")
-    write_json_atomically({"format": CATALOG_FORMAT, "format_version": CATALOG_FORMAT_VERSION,
-                           "name": "synthetic", "design": None}, directory / "manifest.json")
+    sections = pl.DataFrame(
+        {
+            "section_id": ids,
+            "family": "synthetic",
+            "label": ids,
+            "parameters": "{}",
+            "thickness": thickness,
+            "camber": camber,
+        }
+    ).with_columns(
+        [
+            pl.lit(None).cast(v).alias(k)
+            for k, v in SECTION_SCHEMA.items()
+            if k not in ("section_id", "family", "label", "parameters", "thickness", "camber")
+        ]
+    )
+    sections.select(list(SECTION_SCHEMA)).cast(SECTION_SCHEMA).write_parquet(
+        directory / "sections.parquet"
+    )
+    write_json_atomically(
+        {
+            "format": CATALOG_FORMAT,
+            "format_version": CATALOG_FORMAT_VERSION,
+            "name": "synthetic",
+            "design": None,
+        },
+        directory / "manifest.json",
+    )
     return total
 
 

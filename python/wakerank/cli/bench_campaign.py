@@ -32,7 +32,9 @@ def bench_campaign_command(
 
 @bench_app.command("rank")
 def bench_rank_command(
-    points: int = typer.Option(1_000_000, "--points", min=1000, help="Rows of the synthetic catalog."),
+    points: int = typer.Option(
+        1_000_000, "--points", min=1000, help="Rows of the synthetic catalog."
+    ),
 ) -> None:
     """Rank a synthetic catalog of a million points: seconds per ranking."""
     from wakerank.bench.ranking import bench_rank, write_synthetic_catalog
@@ -40,6 +42,8 @@ def bench_rank_command(
     with ErrorsAsMessages(), tempfile.TemporaryDirectory(prefix="wakerank-bench-rank-") as tmp:
         tick = time.perf_counter()
         rows = write_synthetic_catalog(Path(tmp), points)
-        typer.echo(f"synthetic catalog: {rows} points written in {time.perf_counter() - tick:.1f} s")
+        typer.echo(
+            f"synthetic catalog: {rows} points written in {time.perf_counter() - tick:.1f} s"
+        )
         for label, seconds in bench_rank(Path(tmp)).items():
             typer.echo(f"rank ({label}): {seconds:.2f} s for {rows} points")

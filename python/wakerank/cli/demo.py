@@ -15,7 +15,9 @@ from wakerank.cli._errors import ErrorsAsMessages
 @app.command("demo")
 def demo_command(
     out: Path = typer.Option(Path("wakerank-demo"), "--out", help="Output folder."),
-    workers: int | None = typer.Option(None, "--workers", min=1, help="Worker threads [default: all cores]."),
+    workers: int | None = typer.Option(
+        None, "--workers", min=1, help="Worker threads [default: all cores]."
+    ),
 ) -> None:
     """Screen a survey aircraft's wing sections for the least drag at cl 0.5 (a demo)."""
     from wakerank.cli.rank import print_shortlist
@@ -30,8 +32,10 @@ def demo_command(
             typer.echo(f"interrupted: rerun `wakerank demo --out {out}` to resume", err=True)
             raise typer.Exit(130) from None
     console = Console()
-    console.print(f"[bold]Survey-wing demo[/bold]: {result.summary.cases} cases in "
-                  f"{time.perf_counter() - started:.0f} s; ranked at Re = {DEMO_REYNOLDS:.3g}")
+    console.print(
+        f"[bold]Survey-wing demo[/bold]: {result.summary.cases} cases in "
+        f"{time.perf_counter() - started:.0f} s; ranked at Re = {DEMO_REYNOLDS:.3g}"
+    )
     print_shortlist(result.shortlist, result.design_cl, console)
     console.print(f"campaign file : {result.campaign_file}")
     console.print(f"catalog       : {result.catalog_dir}")

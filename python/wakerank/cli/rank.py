@@ -16,14 +16,26 @@ from wakerank.cli._errors import ErrorsAsMessages
 @app.command("rank")
 def rank_command(
     catalog: Path = typer.Argument(..., help="Catalog folder written by `wakerank run`."),
-    cl: list[float] = typer.Option([], "--cl", help="Design lift coefficient; repeat for several [default: the campaign's]."),
-    weights: str | None = typer.Option(None, "--weights", help="Comma-separated weights, one per --cl (e.g. 0.3,0.7)."),
+    cl: list[float] = typer.Option(
+        [], "--cl", help="Design lift coefficient; repeat for several [default: the campaign's]."
+    ),
+    weights: str | None = typer.Option(
+        None, "--weights", help="Comma-separated weights, one per --cl (e.g. 0.3,0.7)."
+    ),
     reynolds: float | None = typer.Option(None, "--reynolds", help="Only this Reynolds number."),
     mach: float | None = typer.Option(None, "--mach", help="Only this Mach number."),
-    min_thickness: float | None = typer.Option(None, "--min-thickness", help="Least thickness (chord fraction)."),
-    max_abs_cm: float | None = typer.Option(None, "--max-abs-cm", help="Largest |cm about c/4| at every design cl."),
-    min_stall_margin: float | None = typer.Option(None, "--min-stall-margin", help="Least cl_max - design cl."),
-    transition: str = typer.Option("free", "--transition", help="free, tripped, a trip label, or any."),
+    min_thickness: float | None = typer.Option(
+        None, "--min-thickness", help="Least thickness (chord fraction)."
+    ),
+    max_abs_cm: float | None = typer.Option(
+        None, "--max-abs-cm", help="Largest |cm about c/4| at every design cl."
+    ),
+    min_stall_margin: float | None = typer.Option(
+        None, "--min-stall-margin", help="Least cl_max - design cl."
+    ),
+    transition: str = typer.Option(
+        "free", "--transition", help="free, tripped, a trip label, or any."
+    ),
     top: int = typer.Option(20, "--top", min=1, help="Rows to keep."),
     out: Path | None = typer.Option(None, "--out", help="Write the shortlist as Parquet."),
 ) -> None:
@@ -37,7 +49,9 @@ def rank_command(
         options = _defaults_from_design(design)
         targets = list(cl) or options.pop("cl", None)
         if not targets:
-            raise ValueError("give a design lift coefficient with --cl (the campaign has no [design])")
+            raise ValueError(
+                "give a design lift coefficient with --cl (the campaign has no [design])"
+            )
         given_weights = _parse_weights(weights) if weights is not None else None
         if given_weights is None and not cl:
             given_weights = options.get("weights")
@@ -46,10 +60,14 @@ def rank_command(
             targets,
             reynolds=reynolds,
             mach=mach,
-            min_thickness=min_thickness if min_thickness is not None else options.get("min_thickness"),
+            min_thickness=min_thickness
+            if min_thickness is not None
+            else options.get("min_thickness"),
             max_abs_cm=max_abs_cm if max_abs_cm is not None else options.get("max_abs_cm"),
             min_stall_margin=(
-                min_stall_margin if min_stall_margin is not None else options.get("min_stall_margin")
+                min_stall_margin
+                if min_stall_margin is not None
+                else options.get("min_stall_margin")
             ),
             weights=given_weights,
             top=top,
@@ -92,8 +110,17 @@ def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> N
     several = len(targets) > 1
     title = "least drag at cl = " + ", ".join(f"{t:g}" for t in targets)
     table = Table(title=title)
-    for header in ("#", "section", "t/c", "Re", "transition", "weighted cd" if several else "cd",
-                   "L/D", "cl_max", "stall margin"):
+    for header in (
+        "#",
+        "section",
+        "t/c",
+        "Re",
+        "transition",
+        "weighted cd" if several else "cd",
+        "L/D",
+        "cl_max",
+        "stall margin",
+    ):
         table.add_column(header, justify="left" if header in ("section", "transition") else "right")
     if several:
         for t in targets:
@@ -104,9 +131,15 @@ def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> N
         cm = cms[0] if not several else max(abs(c) for c in cms)
         margin = f"{row['stall_margin']:.2f}" + ("" if row["stall_reached"] else "+")
         cells = [
-            str(row["rank"]), str(row["label"]), f"{row['thickness']:.3f}",
-            f"{row['reynolds']:.3g}", str(row["transition"]), f"{row['weighted_cd']:.5f}",
-            f"{row['l_over_d']:.1f}", f"{row['cl_max']:.2f}", margin,
+            str(row["rank"]),
+            str(row["label"]),
+            f"{row['thickness']:.3f}",
+            f"{row['reynolds']:.3g}",
+            str(row["transition"]),
+            f"{row['weighted_cd']:.5f}",
+            f"{row['l_over_d']:.1f}",
+            f"{row['cl_max']:.2f}",
+            margin,
         ]
         if several:
             cells += [f"{row[design_column('cd', t)]:.5f}" for t in targets]
@@ -116,4 +149,6 @@ def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> N
     if shortlist.height == 0:
         console.print("no section meets the constraints at these conditions")
     elif not all(shortlist["stall_reached"]):
-        console.print("+ cl_max not reached within the angle range: the stall margin is a lower bound")
+        console.print(
+            "+ cl_max not reached within the angle range: the stall margin is a lower bound"
+        )

@@ -14,11 +14,21 @@ from wakerank.cli._errors import EXIT_FAILED, ErrorsAsMessages
 @app.command("run")
 def run_command(
     campaign: Path = typer.Argument(..., help="Campaign file (TOML)."),
-    out: Path | None = typer.Option(None, "--out", help="Catalog folder [default: catalogs/<name>]."),
-    workers: int | None = typer.Option(None, "--workers", min=1, help="Worker threads [default: all cores]."),
-    fresh: bool = typer.Option(False, "--fresh", help="Discard earlier results in the folder and start over."),
-    chunk_size: int | None = typer.Option(None, "--chunk-size", min=1, help="Cases per chunk (one Parquet part each)."),
-    cluster: str | None = typer.Option(None, "--cluster", help="Run the chunks on Dask: tcp://HOST:8786 or local:N."),
+    out: Path | None = typer.Option(
+        None, "--out", help="Catalog folder [default: catalogs/<name>]."
+    ),
+    workers: int | None = typer.Option(
+        None, "--workers", min=1, help="Worker threads [default: all cores]."
+    ),
+    fresh: bool = typer.Option(
+        False, "--fresh", help="Discard earlier results in the folder and start over."
+    ),
+    chunk_size: int | None = typer.Option(
+        None, "--chunk-size", min=1, help="Cases per chunk (one Parquet part each)."
+    ),
+    cluster: str | None = typer.Option(
+        None, "--cluster", help="Run the chunks on Dask: tcp://HOST:8786 or local:N."
+    ),
 ) -> None:
     """Run a campaign: every section at every condition, resumable after an interruption."""
     from wakerank.campaign import load_campaign
@@ -29,7 +39,11 @@ def run_command(
         target = out if out is not None else default_out_dir(loaded)
         try:
             summary = run_campaign(
-                loaded, target, workers=workers, fresh=fresh, chunk_size=chunk_size,
+                loaded,
+                target,
+                workers=workers,
+                fresh=fresh,
+                chunk_size=chunk_size,
                 backend=_backend(cluster),  # type: ignore[arg-type]
             )
         except RunInterrupted as stop:
