@@ -15,6 +15,7 @@ from wakerank.errors import (
     InternalError,
     WakerankError,
 )
+from wakerank.sections import Section
 
 __version__: str = _core_version()
 
@@ -26,6 +27,7 @@ from wakerank.session import run_campaign  # noqa: E402
 
 __all__ = [
     "__version__",
+    "Section",
     "WakerankError",
     "GeometryError",
     "InputError",

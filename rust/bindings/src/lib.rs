@@ -6,6 +6,7 @@
 use pyo3::prelude::*;
 
 mod errors;
+mod section;
 
 /// Version of the compiled core.
 #[pyfunction]
@@ -16,5 +17,6 @@ fn core_version() -> &'static str {
 #[pymodule]
 fn _core(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(core_version, m)?)?;
+    section::register(m)?;
     Ok(())
 }

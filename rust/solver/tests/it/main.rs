@@ -1,5 +1,7 @@
 //! Integration tests of the public API of wakerank-solver (one test binary).
 
+mod geometry;
+
 #[test]
 fn version_is_set() {
     assert!(!wakerank_solver::VERSION.is_empty());
