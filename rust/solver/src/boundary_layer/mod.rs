@@ -1,4 +1,15 @@
 //! Integral boundary layer: closure relations, transition, and the marching equations.
 
 pub mod interpolation;
+pub mod lag_entrainment;
+mod laminar;
 pub mod laminar_closure;
+mod local_newton;
+pub mod march;
+pub mod station;
+pub mod transition;
+pub mod wake;
+
+pub use march::march_surface;
+pub use station::{MarchSettings, Regime, SideInput, SideSolution, Station};
+pub use wake::march_wake;

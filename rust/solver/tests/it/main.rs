@@ -1,5 +1,6 @@
 //! Integration tests of the public API of wakerank-solver (one test binary).
 
+mod boundary_layer;
 mod geometry;
 
 #[test]

@@ -1,0 +1,84 @@
+//! Laminar two-equation integral method: momentum and kinetic-energy integral equations with
+//! the Falkner–Skan closure (Schlichting & Gersten, *Boundary-Layer Theory*, ch. 10; White,
+//! *Viscous Fluid Flow*, §4-7), discretised by the trapezoidal rule between stations.
+//!
+//! With Reθ = Re·ue·θ, Cf = (Cf·Reθ)(H)/Reθ and CD = (CD·Reθ)(H)/Reθ:
+//!   d ln θ/ds = Cf/(2θ) − (H + 2) d ln ue/ds                        (momentum)
+//!   dH*/ds   = (2CD − H*·Cf/2)/θ + H*(H − 1) d ln ue/ds              (kinetic energy)
+//! The second is d(H*θ)/ds = 2CD − 3H*θ (d ln ue/ds) with the momentum equation subtracted.
+
+use super::laminar_closure::LaminarClosure;
+use super::station::LayerState;
+
+/// Stagnation-point (Hiemenz, Falkner–Skan m = 1) momentum thickness factor: θ = 0.2923√(ν/K)
+/// with K = due/ds (Schlichting & Gersten; our Falkner–Skan table gives 0.2923).
+pub(crate) const STAGNATION_THETA_FACTOR: f64 = 0.2923;
+/// Stagnation-point shape factor (Falkner–Skan m = 1).
+pub(crate) const STAGNATION_SHAPE_FACTOR: f64 = 2.2162;
+/// Bounds of the laminar shape factor in the local Newton iteration (attached ≥ 2.09 at β = 10;
+/// the reversed-flow branch of the closure extends beyond 10).
+pub(crate) const LAMINAR_SHAPE_FACTOR_RANGE: (f64, f64) = (1.9, 16.0);
+
+/// Local skin friction and dissipation coefficients, Cf and CD, of a laminar state.
+pub(crate) fn laminar_coefficients(
+    state: &LayerState,
+    reynolds: f64,
+    closure: &dyn LaminarClosure,
+) -> (f64, f64) {
+    let re_theta = (reynolds * state.edge_velocity * state.theta).max(1e-12);
+    let h = state.shape_factor;
+    (
+        closure.skin_friction_re_theta(h) / re_theta,
+        closure.dissipation_re_theta(h) / re_theta,
+    )
+}
+
+/// Right-hand sides of the laminar equations that do not multiply d ln ue/ds:
+/// (Cf/(2θ), (2CD − H*Cf/2)/θ), and the coefficients of d ln ue/ds: (−(H+2), H*(H−1)).
+fn laminar_terms(
+    state: &LayerState,
+    reynolds: f64,
+    closure: &dyn LaminarClosure,
+) -> ([f64; 2], [f64; 2]) {
+    let (cf, cd) = laminar_coefficients(state, reynolds, closure);
+    let h = state.shape_factor;
+    let h_star = closure.energy_shape_factor(h);
+    let theta = state.theta;
+    (
+        [0.5 * cf / theta, (2.0 * cd - 0.5 * h_star * cf) / theta],
+        [-(h + 2.0), h_star * (h - 1.0)],
+    )
+}
+
+/// Residuals of the momentum and kinetic-energy equations from `a` to `b`: trapezoidal rule for
+/// `weight` = 0.5, backward Euler for 1 (used where the start state is only approximate).
+pub(crate) fn laminar_residuals(
+    a: &LayerState,
+    b: &LayerState,
+    ds: f64,
+    weight: f64,
+    reynolds: f64,
+    closure: &dyn LaminarClosure,
+) -> [f64; 2] {
+    let (source_a, gradient_a) = laminar_terms(a, reynolds, closure);
+    let (source_b, gradient_b) = laminar_terms(b, reynolds, closure);
+    let d_log_ue = (b.edge_velocity / a.edge_velocity).ln();
+    let d_log_theta = (b.theta / a.theta).ln();
+    let d_energy =
+        closure.energy_shape_factor(b.shape_factor) - closure.energy_shape_factor(a.shape_factor);
+    let mean = |p: f64, q: f64| (1.0 - weight) * p + weight * q;
+    [
+        d_log_theta
+            - ds * mean(source_a[0], source_b[0])
+            - mean(gradient_a[0], gradient_b[0]) * d_log_ue,
+        d_energy
+            - ds * mean(source_a[1], source_b[1])
+            - mean(gradient_a[1], gradient_b[1]) * d_log_ue,
+    ]
+}
+
+/// Stagnation-flow momentum thickness at the first station: θ = 0.2923√(ν/K), K = ue/s.
+pub(crate) fn stagnation_theta(s: f64, edge_velocity: f64, reynolds: f64) -> f64 {
+    let k = (edge_velocity / s.max(1e-12)).max(1e-12);
+    STAGNATION_THETA_FACTOR * (1.0 / (reynolds * k)).sqrt()
+}

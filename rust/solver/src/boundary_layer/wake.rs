@@ -1,0 +1,108 @@
+//! Wake march: the lag-entrainment equations continued behind the trailing edge with no wall
+//! friction and the wake's dissipation-length factor (Green, Weeks & Brooman 1977).
+
+use super::lag_entrainment::WAKE_SHAPE_FACTOR_RANGE;
+use super::march::{finite_or, make_station, turbulent_step, EdgeCondition};
+use super::station::{
+    interacted_velocity, validate_input, LayerState, MarchSettings, Regime, SideInput,
+    SideSolution, Station, MIN_EDGE_VELOCITY,
+};
+
+/// Marches the wake from the trailing edge. `input.s` is measured from the trailing edge (the
+/// first station is the trailing edge itself). The start merges the two sides' trailing-edge
+/// states: θ = θu + θl, δ* = δ*u + δ*l + `te_gap` (the base thickness, which the caller may pass
+/// as 0 and handle itself), CE the θ-weighted average of both sides (zero from a laminar side).
+/// The equations are the turbulent ones with Cf = 0 and λ = 0.5 (see
+/// [`super::lag_entrainment::dissipation_length_factor`]), with the same interaction law.
+pub fn march_wake(
+    input: &SideInput,
+    upper_te: &Station,
+    lower_te: &Station,
+    te_gap: f64,
+    settings: &MarchSettings,
+) -> SideSolution {
+    let mut solution = SideSolution {
+        stations: Vec::new(),
+        transition_s: None,
+        transition_forced: false,
+        laminar_separation_s: None,
+        turbulent_separation_s: None,
+        reattachment_s: None,
+        converged: false,
+    };
+    if validate_input(input).is_err() || !(settings.reynolds > 0.0 && settings.reynolds.is_finite())
+    {
+        return solution;
+    }
+    let edge = |i: usize| EdgeCondition {
+        external_velocity: input.external_velocity[i].max(MIN_EDGE_VELOCITY),
+        interaction_coefficient: input.interaction_coefficient[i],
+    };
+    let positive = |v: f64| if v.is_finite() { v.max(0.0) } else { 0.0 };
+    let theta = (positive(upper_te.theta) + positive(lower_te.theta)).max(1e-12);
+    let delta_star =
+        positive(upper_te.delta_star) + positive(lower_te.delta_star) + positive(te_gap);
+    let entrainment = (positive(upper_te.theta) * finite(upper_te.shear_lag)
+        + positive(lower_te.theta) * finite(lower_te.shear_lag))
+        / theta;
+    let shape_factor =
+        (delta_star / theta).clamp(WAKE_SHAPE_FACTOR_RANGE.0, WAKE_SHAPE_FACTOR_RANGE.1);
+    let e0 = edge(0);
+    let mut state = LayerState {
+        theta,
+        shape_factor,
+        entrainment,
+        edge_velocity: interacted_velocity(
+            e0.external_velocity,
+            e0.interaction_coefficient,
+            shape_factor * theta,
+        ),
+    };
+    let amplification = upper_te.amplification.max(lower_te.amplification);
+    let amplification = if amplification.is_finite() {
+        amplification
+    } else {
+        0.0
+    };
+    let mut all_converged = true;
+    solution.stations.push(make_station(
+        input.s[0],
+        &state,
+        Regime::Wake,
+        amplification,
+        settings,
+        None,
+    ));
+    for i in 1..input.s.len() {
+        let prev = state;
+        let (next, ok) = turbulent_step(
+            &prev,
+            input.s[i] - input.s[i - 1],
+            edge(i),
+            settings,
+            true,
+            i == 1,
+        );
+        let (next, finite_ok) = finite_or(next, &prev);
+        all_converged &= ok && finite_ok;
+        state = next;
+        solution.stations.push(make_station(
+            input.s[i],
+            &state,
+            Regime::Wake,
+            amplification,
+            settings,
+            None,
+        ));
+    }
+    solution.converged = all_converged;
+    solution
+}
+
+fn finite(v: f64) -> f64 {
+    if v.is_finite() {
+        v
+    } else {
+        0.0
+    }
+}
