@@ -243,7 +243,7 @@ class DaskBackend:
         """Where the chunks run, for progress output."""
         if self._target is not None:
             return self._target.describe()
-        return f"Dask client {getattr(self._client, 'scheduler_info', lambda: {})().get('address', '')}"
+        return f"Dask scheduler {getattr(self._client, 'scheduler', None) or 'of the given client'}"
 
     def run(self, chunks: Any, out_dir: str) -> Iterator[Any]:
         """Run every chunk on the cluster; yield one outcome per chunk as it ends."""

@@ -6,15 +6,16 @@ chunks run in other processes and write their parts into the shared folder.
 
 from __future__ import annotations
 
+import json
 import os
+import sys
 import signal
 from pathlib import Path
 
 import polars as pl
 import pytest
-from polars.testing import assert_frame_equal
-
 import wakerank
+from polars.testing import assert_frame_equal
 
 pytest.importorskip("distributed")
 pytest.importorskip("wakerank.session")
@@ -79,9 +80,16 @@ def campaign(tmp_path_factory):
     return loaded, folder / "in-process"
 
 
-def test_cluster_catalog_equals_in_process_catalog(campaign, tmp_path):
+@pytest.fixture(scope="module")
+def client():
+    """One local cluster of two worker processes for the module (the kill test runs last)."""
+    with connect("local:2") as dask_client:
+        yield dask_client
+
+
+def test_cluster_catalog_equals_in_process_catalog(campaign, client, tmp_path):
     loaded, reference = campaign
-    summary = run_campaign(loaded, tmp_path / "dask", backend=DaskBackend("local:2"),
+    summary = run_campaign(loaded, tmp_path / "dask", backend=DaskBackend(client),
                            progress=False)
     assert summary.complete and not summary.failed_chunks
     assert_frame_equal(_points(tmp_path / "dask"), _points(reference))
@@ -91,12 +99,38 @@ def test_cluster_catalog_equals_in_process_catalog(campaign, tmp_path):
         assert_frame_equal(mine.sort(mine.columns[:3]), theirs.sort(theirs.columns[:3]))
 
 
-def test_killed_worker_still_gives_every_case_once(campaign, tmp_path):
+def analysis_that_breaks_on_thick_sections(section, **options):  # type: ignore[no-untyped-def]
+    """Stand-in for a bug that hits some chunks on every try: raises for t/c above 0.14."""
+    if section.thickness > 0.14:
+        raise RuntimeError("stand-in failure for thick sections")
+    return wakerank.analyze(section, **options)
+
+
+def test_chunk_failing_every_try_is_recorded_not_dropped(campaign, client, tmp_path):
+    cloudpickle = pytest.importorskip("cloudpickle")
+    cloudpickle.register_pickle_by_value(sys.modules[__name__])
     loaded, reference = campaign
-    with connect("local:2") as client:
-        victim = next(iter(client.run(os.getpid).values()))
-        killer = WorkerKiller(DaskBackend(client), victim)
-        summary = run_campaign(loaded, tmp_path / "dask", backend=killer, progress=False)
+    backend = DaskBackend(client, retries=1,
+                          analysis_function=analysis_that_breaks_on_thick_sections)
+    summary = run_campaign(loaded, tmp_path / "dask", backend=backend, progress=False)
+    assert not summary.complete
+    assert len(summary.failed_chunks) == 4  # two t/c = 0.15 sections at two Reynolds numbers
+    assert all("stand-in failure" in f["message"] for f in summary.failed_chunks)
+    manifest = json.loads((tmp_path / "dask" / "manifest.json").read_text())
+    assert sorted(f["chunk_id"] for f in manifest["failed_chunks"]) == sorted(
+        f["chunk_id"] for f in summary.failed_chunks
+    )
+    points = _points(tmp_path / "dask")
+    assert points.height == 4 * 2 * 3
+    expected = _points(reference).join(points.select("section_id").unique(), on="section_id")
+    assert_frame_equal(points, expected.sort(ORDER))
+
+
+def test_killed_worker_still_gives_every_case_once(campaign, client, tmp_path):
+    loaded, reference = campaign
+    victim = next(iter(client.run(os.getpid).values()))
+    killer = WorkerKiller(DaskBackend(client), victim)
+    summary = run_campaign(loaded, tmp_path / "dask", backend=killer, progress=False)
     assert killer.killed
     assert summary.complete and not summary.failed_chunks
     points = _points(tmp_path / "dask")
