@@ -123,7 +123,8 @@ def run_campaign(
     for result in done:
         _count(summary, result)
     summary.reused_chunks = len(done)
-    cat.write_sections(plan.sections, out / cat.SECTIONS)
+    if not _sections_current(out / cat.SECTIONS, plan):
+        cat.write_sections(plan.sections, out / cat.SECTIONS)
     started_at = (previous or {}).get("started_at") or _now()
     manifest = _manifest(loaded, plan, campaign_sha, started_at, summary, status="running")
     write_json_atomically(manifest, out / cat.MANIFEST)
@@ -252,6 +253,17 @@ def _scan_existing(
             summary.redone_parts += 1
         pending.append(chunk)
     return done, pending
+
+
+def _sections_current(path: Path, plan: CampaignPlan) -> bool:
+    """True when sections.parquet already lists exactly the plan's sections, in order."""
+    import polars as pl
+
+    try:
+        ids = pl.read_parquet(path, columns=["section_id"])["section_id"].to_list()
+    except (OSError, pl.exceptions.PolarsError):
+        return False
+    return ids == [spec.section_id for spec in plan.sections]
 
 
 def _previous_manifest(out: Path) -> dict[str, Any] | None:
