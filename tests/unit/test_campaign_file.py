@@ -177,3 +177,23 @@ def test_demo_campaign_copies_are_identical_and_valid():
     assert packaged.read_text() == (ROOT / "catalogs" / "demo.toml").read_text()
     campaign = parse_campaign(packaged.read_text())
     assert campaign.design is not None and campaign.design.min_thickness == 0.12
+
+
+def test_real_sections_rebuild_to_the_same_geometry(tmp_path):
+    wr = pytest.importorskip("wakerank")
+    if not hasattr(wr, "Section"):
+        pytest.skip("the geometry module has not landed")
+    from handmade_sections import naca_symmetric
+
+    x, y = naca_symmetric(0.11)
+    (tmp_path / "candidates").mkdir()
+    (tmp_path / "candidates" / "mine.txt").write_text(
+        "my section\n" + "\n".join(f"{a:.8f} {b:.8f}" for a, b in zip(x, y)) + "\n")
+    path = tmp_path / "c.toml"
+    path.write_text(TINY_CAMPAIGN.replace(
+        "[conditions]", '[[sections]]\nfamily = "file"\npaths = ["candidates/*.txt"]\n\n[conditions]'))
+    plan = expand(load_campaign(path))
+    assert [s.family for s in plan.sections] == ["naca4"] * 4 + ["naca", "file"]
+    for spec in plan.sections:
+        assert spec.build().geometry_id == spec.section_id  # workers rebuild the same outline
+    assert plan.sections[-1].label == "my section"
