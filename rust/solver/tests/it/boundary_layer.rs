@@ -59,21 +59,20 @@ fn blasius_flat_plate() {
             "H = {}",
             last.shape_factor
         );
+        let (mut theta_error, mut cf_error) = (0.0_f64, 0.0_f64);
         for station in solution.stations.iter().filter(|st| st.s >= 0.05) {
             let re_x = reynolds * station.s;
             let theta_blasius = 0.664 * station.s / re_x.sqrt();
             let cf_blasius = 0.664 / re_x.sqrt();
-            assert!(
-                (station.theta / theta_blasius - 1.0).abs() < 0.02,
-                "θ at s = {}",
-                station.s
-            );
-            assert!(
-                (station.cf / cf_blasius - 1.0).abs() < 0.02,
-                "cf at s = {}",
-                station.s
-            );
+            theta_error = theta_error.max((station.theta / theta_blasius - 1.0).abs());
+            cf_error = cf_error.max((station.cf / cf_blasius - 1.0).abs());
         }
+        eprintln!(
+            "Re {reynolds:e}: largest θ error {:.3} %, cf error {:.3} % for x ≥ 0.05",
+            100.0 * theta_error,
+            100.0 * cf_error
+        );
+        assert!(theta_error < 0.02 && cf_error < 0.02);
         let cd = 2.0 * 2.0 * last.theta;
         let cd_blasius = 2.0 * 1.328 / reynolds.sqrt();
         eprintln!(
