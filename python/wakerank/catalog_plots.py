@@ -157,7 +157,7 @@ def map_figure(
     """cd at the design cl over two section parameters of the catalog."""
     opened = _open(catalog)
     design = design_points(opened, design_cl)
-    sections = opened.sections.drop("x", "y").collect()
+    sections = family_parameters(opened.sections, [x, y])
     return plots.map_figure(
         design,
         sections,
@@ -167,6 +167,30 @@ def map_figure(
         reynolds=reynolds if reynolds is not None else default_reynolds(opened),
         transition=transition,
     )
+
+
+def family_parameters(sections: pl.LazyFrame, names: Sequence[str]) -> pl.DataFrame:
+    """section_id and one column per name: the family's nominal parameter (from the
+    ``parameters`` JSON, e.g. NACA thickness 0.12) where the section has it, else the measured
+    geometric property of the same name (e.g. the thickness of a CST or file section)."""
+    columns = sections.collect_schema().names()
+    exprs = []
+    for name in names:
+        nominal = (
+            pl.col("parameters").str.json_path_match(f"$.{name}").cast(pl.Float64, strict=False)
+            if "parameters" in columns
+            else pl.lit(None, dtype=pl.Float64)
+        )
+        measured = pl.col(name) if name in columns else pl.lit(None, dtype=pl.Float64)
+        exprs.append(pl.coalesce(nominal, measured).alias(name))
+    table = sections.select("section_id", *exprs).collect()
+    for name in names:
+        if table[name].null_count() == table.height:
+            known = [c for c in columns if c not in ("section_id", "family", "label", "x", "y")]
+            raise InputError(
+                f"sections have no parameter {name!r}; there are {known} and the family parameters"
+            )
+    return table
 
 
 def default_output(kind: str, **labels: Any) -> str:

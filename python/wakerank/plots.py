@@ -256,7 +256,11 @@ def map_table(
     if rows.height == 0:
         stored = sorted(design["design_cl"].unique().to_list())
         raise InputError(f"no design point at cl = {design_cl:g}; the catalog has {stored}")
-    joined = rows.join(sections.select("section_id", x, y), on="section_id", how="inner")
+    joined = (
+        sections.select("section_id", x, y)
+        .drop_nulls([x, y])
+        .join(rows.select("section_id", "cd"), on="section_id", how="left")
+    )
     best = (
         joined.group_by([x, y])
         .agg(pl.col("cd").min().alias("cd"), pl.len().alias("sections"))
@@ -301,7 +305,8 @@ def map_figure(
                  label=f"least cd = {gcd[least]:.5f}")
     if bad.height:
         axes.scatter(bad[x].to_numpy(), bad[y].to_numpy(), marker="x", color="0.4",
-                     label="no converged design point")
+                     label="does not reach this cl on a converged polar")
+    axes.ticklabel_format(useOffset=False)
     axes.set_xlabel(parameter_label(x))
     axes.set_ylabel(parameter_label(y))
     axes.grid(True, alpha=0.3)

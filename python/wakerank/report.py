@@ -222,7 +222,7 @@ def catalog_report(
     `wakerank rank`.
     """
     from wakerank.catalog import Catalog, open_catalog
-    from wakerank.catalog_plots import design_points
+    from wakerank.catalog_plots import design_points, family_parameters
     from wakerank.ranking import rank
 
     opened = catalog if isinstance(catalog, Catalog) else open_catalog(catalog)
@@ -234,7 +234,9 @@ def catalog_report(
                      **constraints)
     ids = shortlist["section_id"].unique().to_list()
     points = opened.points.filter(pl.col("section_id").is_in(ids)).collect()
-    sections = opened.sections.drop("x", "y").collect()
+    sections = opened.sections.select("section_id", "label").collect().join(
+        family_parameters(opened.sections, ["thickness", "camber"]), on="section_id"
+    )
     design = design_points(opened, design_cl)
     return build_report(
         manifest=opened.manifest,

@@ -151,3 +151,21 @@ def test_mesh_reopens_with_markers_and_first_cell(tmp_path):
         gmsh.finalize()
     assert mesh["first_cell_height"] == pytest.approx(wall_spacing(8e5).first_cell_height)
     assert math.isclose(mesh["design_reynolds"], 8e5)
+
+
+def test_points_option_repanels_the_coordinates(tmp_path):
+    shortlist, sections = _catalog_frames("s-0012", sharp=False)
+    [folder] = export_shortlist(shortlist, sections, tmp_path / "a", ExportOptions(points=121))
+    coords = np.loadtxt(folder / "coordinates.csv", delimiter=",", skiprows=1)
+    assert coords.shape == (121, 2)
+    case = json.loads((folder / "case.json").read_text())
+    assert case["section"]["points"] == 121 and case["section"]["trailing_edge"] == "blunt"
+    # repanelled points stay on the section: the largest ordinate within 0.2 % of the input's
+    x, y = naca_symmetric(sharp=False)
+    assert coords[:, 1].max() == pytest.approx(y.max(), rel=2e-3)
+    [closed] = export_shortlist(shortlist, sections, tmp_path / "b",
+                                ExportOptions(points=121, close_trailing_edge=True))
+    coords = np.loadtxt(closed / "coordinates.csv", delimiter=",", skiprows=1)
+    assert coords.shape == (121, 2) and coords[0].tolist() == coords[-1].tolist()
+    with pytest.raises(InputError, match="--points"):
+        export_shortlist(shortlist, sections, tmp_path, ExportOptions(points=8))
