@@ -327,3 +327,59 @@ mod no_panic {
         }
     }
 }
+
+/// Airfoil-like edge velocity of our own: stagnation at s = 0, peak ≈ 1.25, recovery to `ue_te`.
+fn airfoil_like_edge_velocity(s: f64, ue_te: f64) -> f64 {
+    1.25 * (1.0 - (-s / 0.012).exp()) - (1.25 - ue_te) * (s / 1.05).powf(1.2)
+}
+
+#[test]
+fn wake_pressure_recovery_matches_squire_young() {
+    // The far-wake momentum defect 2θ∞ against Squire & Young's estimate from the trailing-edge
+    // state, 2θ_TE ue_TE^((H_TE+5)/2) per side (ARC R&M 1838, 1938). Squire–Young is itself an
+    // approximation good to a few per cent; require 2 % (common practice).
+    let reynolds = 3e6;
+    let n = 120;
+    let s: Vec<f64> = (1..=n)
+        .map(|i| 1.05 * 0.5 * (1.0 - (std::f64::consts::PI * i as f64 / n as f64).cos()))
+        .collect();
+    let wake_s: Vec<f64> = (0..=200)
+        .map(|i| 5.0 * (i as f64 / 200.0).powi(2))
+        .collect();
+    for ue_te in [0.85, 0.9, 0.95] {
+        let ue: Vec<f64> = s
+            .iter()
+            .map(|&x| airfoil_like_edge_velocity(x, ue_te))
+            .collect();
+        let settings = MarchSettings {
+            trip_s: Some(0.05),
+            ..MarchSettings::new(reynolds)
+        };
+        let side = direct_march(&s, &ue, &settings);
+        assert!(side.converged);
+        let te = *side.stations.last().unwrap();
+        let wake_ue: Vec<f64> = wake_s
+            .iter()
+            .map(|&x| 1.0 - (1.0 - te.edge_velocity) * (-x / 0.3).exp())
+            .collect();
+        let k = vec![0.0; wake_s.len()];
+        let input = SideInput {
+            s: &wake_s,
+            external_velocity: &wake_ue,
+            interaction_coefficient: &k,
+        };
+        let wake = march_wake(&input, &te, &te, 0.0, &settings);
+        assert!(wake.converged);
+        let last = wake.stations.last().unwrap();
+        let cd_wake = 2.0 * last.theta;
+        let cd_squire_young =
+            2.0 * 2.0 * te.theta * te.edge_velocity.powf((te.shape_factor + 5.0) / 2.0);
+        eprintln!(
+            "ue_TE {:.3}, H_TE {:.3}: far wake {cd_wake:.5e}, Squire–Young {cd_squire_young:.5e} ({:+.2} %)",
+            te.edge_velocity,
+            te.shape_factor,
+            100.0 * (cd_squire_young / cd_wake - 1.0)
+        );
+        assert!((cd_squire_young / cd_wake - 1.0).abs() < 0.02);
+    }
+}
