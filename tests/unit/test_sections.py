@@ -75,3 +75,79 @@ def test_frame_properties_and_repr() -> None:
 def test_bad_designation_is_an_input_error() -> None:
     with pytest.raises(wr.InputError, match="24x2"):
         wr.Section.naca("24x2")
+
+
+DATA = __import__("pathlib").Path(__file__).resolve().parents[1] / "data"
+
+
+def _write(path, lines) -> None:  # type: ignore[no-untyped-def]
+    path.write_text("\n".join(lines) + "\n")
+
+
+def _surfaces(points: int = 40):  # type: ignore[no-untyped-def]
+    s = wr.Section.naca("2412", points=points)
+    le = int(np.argmin(s.x))
+    upper = list(zip(s.x[: le + 1][::-1], s.y[: le + 1][::-1]))
+    lower = list(zip(s.x[le:], s.y[le:]))
+    return s, upper, lower
+
+
+def test_file_layouts_give_the_same_section(tmp_path) -> None:  # type: ignore[no-untyped-def]
+    s, upper, lower = _surfaces()
+    row = "{:.9f} {:.9f}".format
+    loop = [row(x, y) for x, y in zip(s.x, s.y)]
+    layouts = {
+        "loop.txt": ["my section", *loop],
+        "loop_reversed.txt": ["my section", *loop[::-1]],
+        "loop_commas.csv": ["my section", *[line.replace(" ", ", ") for line in loop]],
+        "split.txt": ["my section", *[row(x, y) for x, y in upper], "", *[row(x, y) for x, y in lower]],
+        "split_count.txt": [
+            "my section",
+            f"{len(upper)}. {len(lower)}.",
+            *[row(x, y) for x, y in upper],
+            *[row(x, y) for x, y in lower],
+        ],
+        "no_name.txt": loop,
+    }
+    for name, lines in layouts.items():
+        _write(tmp_path / name, lines)
+        read = wr.Section.from_file(tmp_path / name, normalise=False)
+        assert read.family == "file"
+        assert read.name == ("no_name" if name == "no_name.txt" else "my section")
+        np.testing.assert_allclose(read.x, s.x, atol=1e-9, err_msg=name)
+        np.testing.assert_allclose(read.y, s.y, atol=1e-9, err_msg=name)
+
+
+def test_e387_design_ordinates() -> None:
+    # NASA TM-4062 (McGhee, Walker & Millard 1988), Table I: t/c ≈ 0.0907 near 0.31c.
+    s = wr.Section.from_file(DATA / "e387.txt")
+    assert s.name.startswith("E387")
+    assert s.thickness == pytest.approx(0.0907, abs=5e-4)
+    assert s.thickness_position == pytest.approx(0.31, abs=0.01)
+    assert s.chord == pytest.approx(1.0, abs=1e-9)
+
+
+def test_from_spec_reads_designations_and_files() -> None:
+    assert wr.Section.from_spec("NACA 23012").family == "naca5"
+    assert wr.Section.from_spec(str(DATA / "e387.txt")).family == "file"
+    with pytest.raises(wr.InputError, match="neither a NACA designation"):
+        wr.Section.from_spec("no/such/file.dat")
+
+
+def test_cst_section() -> None:
+    # Kulfan 2008: with N1 = 0.5 the leading-edge radius is A0²/2 (c = 1), here 0.17²/2.
+    s = wr.Section.cst(upper=[0.17, 0.16, 0.15], lower=[-0.17, -0.16, -0.15], te_thickness=0.0)
+    assert s.family == "cst" and s.parameters["n1"] == 0.5 and s.parameters["n2"] == 1.0
+    assert s.camber == pytest.approx(0.0, abs=1e-12)
+    assert s.leading_edge_radius == pytest.approx(0.17**2 / 2, rel=5e-3)
+    blunt = wr.Section.cst(upper=[0.2, 0.2], lower=[-0.1, -0.1], te_thickness=0.004)
+    assert blunt.trailing_edge_thickness == pytest.approx(0.004, abs=1e-12)
+    with pytest.raises(wr.GeometryError, match="lower surface is not below"):
+        wr.Section.cst(upper=[0.1, 0.1], lower=[0.2, 0.2])
+
+
+def test_five_digit_and_modified_keywords() -> None:
+    a = wr.Section.naca5(design_cl=0.3, max_camber_position=0.15, thickness=0.12)
+    assert a.geometry_id == wr.Section.naca("23012").geometry_id
+    b = wr.Section.naca4_modified(0.0, 0.0, 0.12, le_radius_index=3, max_thickness_position=0.4)
+    assert b.geometry_id == wr.Section.naca("0012-34").geometry_id

@@ -40,6 +40,7 @@ from wakerank.cli import bench as _bench  # noqa: E402,F401
 from wakerank.cli import export as _export  # noqa: E402,F401
 from wakerank.cli import plot as _plot  # noqa: E402,F401
 from wakerank.cli import report as _report  # noqa: E402,F401
+from wakerank.cli import section as _section  # noqa: E402,F401
 from wakerank.cli import run as _run  # noqa: E402,F401
 from wakerank.cli import rank as _rank  # noqa: E402,F401
 from wakerank.cli import demo as _demo  # noqa: E402,F401

@@ -76,7 +76,13 @@ pub fn repanel(section: &Section, panels: usize) -> Result<Section> {
         x,
         y,
     };
-    out.validate()?;
+    out.validate().map_err(|e| {
+        SolverError::geometry(format!(
+            "re-panelling '{}' to {panels} panels failed: the spline through its points wiggles \
+             too much to give a clean outline (smooth the coordinates or change the panel count): {e}",
+            section.name
+        ))
+    })?;
     Ok(out)
 }
 
