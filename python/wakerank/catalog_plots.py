@@ -93,7 +93,8 @@ def section_figure(
         np.asarray(stored["x"][0], dtype=float), np.asarray(stored["y"][0], dtype=float), name=label
     )
     options = _analysis_options(condition)
-    surface = wr.surface(shape, alpha_deg)
+    surface = wr.surface(shape, alpha_deg, panels=options.get("panels", 160),
+                         mach=options.get("mach", 0.0))
     stations = wr.boundary_layer(shape, alpha_deg=alpha_deg, **options)
     return plots.section_figure(
         surface,

@@ -11,6 +11,7 @@ import io
 import json
 import math
 from collections.abc import Sequence
+from pathlib import Path
 from typing import Any
 
 import polars as pl
@@ -47,7 +48,7 @@ body { font-family: sans-serif; margin: 2em auto; max-width: 1100px; color: #222
 table { border-collapse: collapse; font-size: 0.85em; margin: 0.5em 0 1.5em; }
 th, td { border: 1px solid #bbb; padding: 0.2em 0.5em; text-align: right; }
 th { background: #eee; } td.text { text-align: left; }
-img { max-width: 100%; } .caution { border-left: 4px solid #c60; padding: 0.5em 1em; background: #fff6ec; }
+img { max-width: 100%; } pre { background: #f6f6f6; padding: 0.5em; font-size: 0.85em; } .caution { border-left: 4px solid #c60; padding: 0.5em 1em; background: #fff6ec; }
 """
 
 
@@ -100,6 +101,18 @@ def convergence_table(points: pl.DataFrame | pl.LazyFrame) -> pl.DataFrame:
         .sort(keys)
         .collect()
     )
+
+
+def _campaign_file_html(manifest: dict[str, Any]) -> str:
+    """The campaign file's text, when it is still where the manifest says."""
+    path = manifest.get("campaign_file")
+    if not path:
+        return ""
+    try:
+        text = Path(path).read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError):
+        return f"<p>Campaign file {html.escape(str(path))} (no longer readable).</p>"
+    return f"<h3>Campaign file {html.escape(str(path))}</h3><pre>{html.escape(text)}</pre>"
 
 
 def _manifest_rows(manifest: dict[str, Any]) -> str:
@@ -185,7 +198,7 @@ def build_report(
     )
     toc = "".join(f'<li><a href="#{key}">{title}</a></li>' for key, title in PAGE_SECTIONS)
     body = {
-        "campaign": _manifest_rows(manifest),
+        "campaign": _manifest_rows(manifest) + _campaign_file_html(manifest),
         "shortlist": _shortlist_html(shortlist, design_cl, constraints or {}),
         "polars": "".join(polar_html),
         "maps": "".join(map_html),

@@ -84,3 +84,21 @@ def test_rank_then_export_with_case_files(catalog, tmp_path):
 def test_export_of_a_missing_shortlist_is_one_line(catalog, tmp_path):
     result = invoke("export", tmp_path / "none.parquet", "--catalog", catalog, "--to", tmp_path)
     assert result.exit_code == 2 and "no such shortlist file" in result.output
+
+
+def test_plot_section_recomputes_the_boundary_layer(catalog, tmp_path):
+    import wakerank
+
+    if not (hasattr(wakerank, "surface") and hasattr(wakerank, "boundary_layer")):
+        pytest.skip("needs wakerank.surface and wakerank.boundary_layer")
+    out = tmp_path / "section.png"
+    result = invoke("plot", "section", catalog, "sec04", "--alpha", "4", "--reynolds", "8e5",
+                    "--out", out)
+    assert result.exit_code == 0, result.output
+    assert png_size(out) == EXPECTED_PIXELS
+
+
+def test_plot_section_names_a_missing_condition(catalog, tmp_path):
+    result = invoke("plot", "section", catalog, "sec04", "--alpha", "4", "--reynolds", "3e6",
+                    "--out", tmp_path / "s.png")
+    assert result.exit_code == 2 and "no rows at Reynolds number 3e6" in result.output
