@@ -9,6 +9,7 @@ from __future__ import annotations
 import json
 import os
 import sys
+import shutil
 import signal
 from pathlib import Path
 
@@ -126,12 +127,26 @@ def test_chunk_failing_every_try_is_recorded_not_dropped(campaign, client, tmp_p
     assert_frame_equal(points, expected.sort(ORDER))
 
 
+def test_cluster_resumes_an_in_process_run(campaign, client, tmp_path):
+    loaded, reference = campaign
+    resumed = tmp_path / "resumed"
+    shutil.copytree(reference, resumed)
+    parts = sorted((resumed / "points").glob("part-*.parquet"))
+    for part in parts[::2]:
+        part.unlink()
+    parts[1].write_bytes(parts[1].read_bytes()[:100])  # a half-written part is redone
+    summary = run_campaign(loaded, resumed, backend=DaskBackend(client), progress=False)
+    assert summary.complete
+    assert summary.computed_chunks == len(parts[::2]) + 1
+    assert_frame_equal(_points(resumed), _points(reference))
+
+
 def test_killed_worker_still_gives_every_case_once(campaign, client, tmp_path):
     loaded, reference = campaign
     victim = next(iter(client.run(os.getpid).values()))
     killer = WorkerKiller(DaskBackend(client), victim)
     summary = run_campaign(loaded, tmp_path / "dask", backend=killer, progress=False)
-    assert killer.killed
+    assert killer.killed and victim not in client.run(os.getpid).values()
     assert summary.complete and not summary.failed_chunks
     points = _points(tmp_path / "dask")
     assert points.select(ORDER).is_duplicated().sum() == 0
