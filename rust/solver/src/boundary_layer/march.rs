@@ -17,6 +17,7 @@ use super::station::{
     SideInput, SideSolution, Station, MIN_EDGE_VELOCITY,
 };
 use super::transition::AmplificationModel;
+use super::transition_interval::TransitionInterval;
 
 /// Edge conditions of the station being solved.
 #[derive(Debug, Clone, Copy)]
@@ -36,7 +37,7 @@ impl EdgeCondition {
     fn velocity_bounds(&self) -> (f64, f64) {
         (
             MIN_EDGE_VELOCITY,
-            10.0 * self.external_velocity.abs().max(1.0),
+            10.0 * self.external_velocity.abs().max(1.0) + 10.0,
         )
     }
 }
@@ -78,6 +79,7 @@ fn laminar_step_with(
         edge.external_velocity,
         edge.interaction_coefficient,
         a.shape_factor * a.theta,
+        a.edge_velocity,
     );
     let (ue_min, ue_max) = edge.velocity_bounds();
     let options = newton_options(
@@ -119,6 +121,7 @@ fn turbulent_step_with(
         edge.external_velocity,
         edge.interaction_coefficient,
         a.shape_factor * a.theta,
+        a.edge_velocity,
     );
     let (ue_min, ue_max) = edge.velocity_bounds();
     let h_range = if wake {
@@ -304,7 +307,7 @@ pub fn march_surface(
     let re = settings.reynolds;
     let n = input.s.len();
     let edge = |i: usize| EdgeCondition {
-        external_velocity: input.external_velocity[i].max(MIN_EDGE_VELOCITY),
+        external_velocity: input.external_velocity[i],
         interaction_coefficient: input.interaction_coefficient[i],
     };
     let growth = |st: &LayerState| {
@@ -317,19 +320,20 @@ pub fn march_surface(
         }
     };
 
-    // Stagnation-point start, with the interaction law solved by a few fixed-point sweeps.
+    // Stagnation-point start. With δ* = A/√ue (A = 2.2162·0.2923·√(s0/Re)) the interaction law
+    // ue − c·A·√ue = E is a quadratic in √ue; its positive root, else the external velocity.
     let s0 = input.s[0].max(1e-12);
     let e0 = edge(0);
-    let mut ue = e0.external_velocity;
-    let mut theta = stagnation_theta(s0, ue, re);
-    for _ in 0..20 {
-        ue = interacted_velocity(
-            e0.external_velocity,
-            e0.interaction_coefficient,
-            STAGNATION_SHAPE_FACTOR * theta,
-        );
-        theta = stagnation_theta(s0, ue, re);
-    }
+    let a_coefficient = STAGNATION_SHAPE_FACTOR * stagnation_theta(s0, 1.0, re);
+    let b = e0.interaction_coefficient * a_coefficient;
+    let discriminant = b * b + 4.0 * e0.external_velocity;
+    let root = 0.5 * (b + discriminant.max(0.0).sqrt());
+    let ue = if discriminant >= 0.0 && root * root > MIN_EDGE_VELOCITY {
+        root * root
+    } else {
+        e0.external_velocity.abs().max(MIN_EDGE_VELOCITY)
+    };
+    let theta = stagnation_theta(s0, ue, re);
     let mut state = LayerState {
         theta,
         shape_factor: STAGNATION_SHAPE_FACTOR,
@@ -381,45 +385,25 @@ pub fn march_surface(
                 (finite_or(turb, &start).0, false)
             } else {
                 let n_next = n_amp + 0.5 * ds * (growth(&prev) + growth(&lam));
-                let trip = settings.trip_s.filter(|&t| t > sa && t <= sb);
-                let free = (n_next >= settings.n_critical).then(|| {
-                    sa + ds * ((settings.n_critical - n_amp) / (n_next - n_amp)).clamp(0.0, 1.0)
-                });
-                let transition = match (trip, free) {
-                    (Some(t), Some(f)) => Some((t.min(f), t <= f)),
-                    (Some(t), None) => Some((t, true)),
-                    (None, Some(f)) => Some((f, false)),
-                    (None, None) => None,
-                };
-                match transition {
-                    None => {
-                        n_amp = n_next;
-                        (lam, true)
-                    }
-                    Some((s_tr, forced)) => {
-                        let w = ((s_tr - sa) / ds).clamp(0.0, 1.0);
-                        let lerp = |p: f64, q: f64| p + w * (q - p);
-                        let at_transition = LayerState {
-                            theta: lerp(prev.theta, lam.theta),
-                            shape_factor: lerp(prev.shape_factor, lam.shape_factor),
-                            entrainment: 0.0,
-                            edge_velocity: lerp(prev.edge_velocity, lam.edge_velocity),
-                        };
-                        n_amp = lerp(n_amp, n_next);
-                        regime = Regime::Turbulent;
-                        transition_s = Some(s_tr);
-                        transition_forced = forced;
-                        let start = turbulent_start(&at_transition, re);
-                        let rest = sb - s_tr;
-                        if rest <= 1e-9 * ds {
-                            (turbulent_start(&lam, re), true)
-                        } else {
-                            let (turb, turb_ok) =
-                                turbulent_step(&start, rest, edge(i), settings, false, true);
-                            let (turb, finite) = finite_or(turb, &start);
-                            (turb, turb_ok && finite)
-                        }
-                    }
+                let trip_inside = settings.trip_s.is_some_and(|t| t > sa && t <= sb);
+                if n_next < settings.n_critical && !trip_inside {
+                    n_amp = n_next;
+                    (lam, true)
+                } else {
+                    let interval = TransitionInterval {
+                        start: &prev,
+                        start_amplification: n_amp,
+                        sa,
+                        sb,
+                        first: i == 1,
+                    };
+                    let outcome =
+                        interval.solve(&lam, [edge(i - 1), edge(i)], settings, closure, &growth);
+                    n_amp = outcome.amplification;
+                    regime = Regime::Turbulent;
+                    transition_s = Some(outcome.s);
+                    transition_forced = outcome.forced;
+                    (outcome.state, outcome.converged)
                 }
             }
         } else {

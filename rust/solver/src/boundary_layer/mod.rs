@@ -8,6 +8,7 @@ mod local_newton;
 pub mod march;
 pub mod station;
 pub mod transition;
+mod transition_interval;
 pub mod wake;
 
 pub use march::march_surface;

@@ -147,10 +147,22 @@ pub(crate) fn validate_input(input: &SideInput) -> Result<(), String> {
     Ok(())
 }
 
-/// Solves the interaction law ue = U + k·ue·δ* for ue at fixed δ*, bounded below.
-pub(crate) fn interacted_velocity(external: f64, coefficient: f64, delta_star: f64) -> f64 {
-    let denominator = (1.0 - coefficient * delta_star).max(0.2);
-    (external / denominator).max(MIN_EDGE_VELOCITY)
+/// Solves the interaction law ue = U + k·ue·δ* for ue at fixed δ* (a Newton start value). When
+/// that has no positive solution (k·δ* near 1, or of the wrong sign for U, which may be negative
+/// when the caller folds other stations' influence into U), returns `fallback`.
+pub(crate) fn interacted_velocity(
+    external: f64,
+    coefficient: f64,
+    delta_star: f64,
+    fallback: f64,
+) -> f64 {
+    let denominator = 1.0 - coefficient * delta_star;
+    let ue = external / denominator;
+    if denominator.abs() > 0.05 && ue.is_finite() && ue > MIN_EDGE_VELOCITY {
+        ue
+    } else {
+        fallback.max(MIN_EDGE_VELOCITY)
+    }
 }
 
 /// Smallest edge velocity the marches work with (avoids division by zero near stagnation).

@@ -5,7 +5,7 @@ use super::lag_entrainment::WAKE_SHAPE_FACTOR_RANGE;
 use super::march::{finite_or, make_station, turbulent_step, EdgeCondition};
 use super::station::{
     interacted_velocity, validate_input, LayerState, MarchSettings, Regime, SideInput,
-    SideSolution, Station, MIN_EDGE_VELOCITY,
+    SideSolution, Station,
 };
 
 /// Marches the wake from the trailing edge. `input.s` is measured from the trailing edge (the
@@ -35,7 +35,7 @@ pub fn march_wake(
         return solution;
     }
     let edge = |i: usize| EdgeCondition {
-        external_velocity: input.external_velocity[i].max(MIN_EDGE_VELOCITY),
+        external_velocity: input.external_velocity[i],
         interaction_coefficient: input.interaction_coefficient[i],
     };
     let positive = |v: f64| if v.is_finite() { v.max(0.0) } else { 0.0 };
@@ -56,6 +56,7 @@ pub fn march_wake(
             e0.external_velocity,
             e0.interaction_coefficient,
             shape_factor * theta,
+            0.5 * (finite(upper_te.edge_velocity) + finite(lower_te.edge_velocity)),
         ),
     };
     let amplification = upper_te.amplification.max(lower_te.amplification);

@@ -383,3 +383,54 @@ fn wake_pressure_recovery_matches_squire_young() {
         assert!((cd_squire_young / cd_wake - 1.0).abs() < 0.02);
     }
 }
+
+#[test]
+fn interaction_law_reproduces_a_direct_solution() {
+    // Consistency of the quasi-simultaneous law (Veldman 1981): with E_i = ue_i − c·ue_i δ*_i built
+    // from a direct-mode solution, the interacted march must return that same solution, also when
+    // c is so large that E is negative (common practice).
+    let reynolds = 3e6;
+    let n = 100;
+    let s: Vec<f64> = (1..=n)
+        .map(|i| 1.05 * 0.5 * (1.0 - (std::f64::consts::PI * i as f64 / n as f64).cos()))
+        .collect();
+    let ue: Vec<f64> = s
+        .iter()
+        .map(|&x| airfoil_like_edge_velocity(x, 0.9))
+        .collect();
+    let settings = MarchSettings {
+        trip_s: Some(0.05),
+        ..MarchSettings::new(reynolds)
+    };
+    let direct = direct_march(&s, &ue, &settings);
+    assert!(direct.converged);
+    for coefficient in [50.0, 400.0] {
+        let external: Vec<f64> = direct
+            .stations
+            .iter()
+            .map(|st| st.edge_velocity - coefficient * st.edge_velocity * st.delta_star)
+            .collect();
+        assert!(coefficient < 100.0 || external.iter().any(|&e| e < 0.0));
+        let k = vec![coefficient; n];
+        let input = SideInput {
+            s: &s,
+            external_velocity: &external,
+            interaction_coefficient: &k,
+        };
+        let interacted = march_surface(
+            &input,
+            &settings,
+            FalknerSkanClosure::shipped(),
+            &NoAmplification,
+        );
+        assert!(interacted.converged, "c = {coefficient}");
+        for (a, b) in direct.stations.iter().zip(&interacted.stations) {
+            assert!(
+                (a.edge_velocity - b.edge_velocity).abs() < 1e-6,
+                "ue at s = {}",
+                a.s
+            );
+            assert!((a.theta / b.theta - 1.0).abs() < 1e-6, "θ at s = {}", a.s);
+        }
+    }
+}
