@@ -55,6 +55,7 @@ def _polar(
 
 
 def _catalog(tmp_path: Path) -> Path:
+    tmp_path.mkdir(parents=True, exist_ok=True)
     stalled = [0.2, 0.3, 0.4, 0.5, 0.45, 0.40, 0.35, 0.30, 0.25]  # cl_max 0.5 at 3 degrees
     polars = (
         _polar("A")  # the reference: cd = 0.010 + 0.001 alpha, cl = 0.2 + 0.1 alpha
@@ -171,3 +172,34 @@ def test_open_catalog_gives_lazy_frames(tmp_path):
     assert catalog.points.select(pl.len()).collect().item() == 8 * 9 - 1
     with pytest.raises(InputError, match="not a wakerank catalog"):
         open_catalog(tmp_path / "points")
+
+
+def test_rank_command_prints_the_table_and_writes_the_shortlist(tmp_path):
+    from typer.testing import CliRunner
+
+    from wakerank.cli import app
+
+    catalog = _catalog(tmp_path / "cat")
+    out = tmp_path / "shortlist.parquet"
+    result = CliRunner().invoke(app, ["rank", str(catalog), "--cl", "0.4", "--cl", "0.55",
+                                      "--weights", "0.3,0.7", "--min-thickness", "0.11",
+                                      "--top", "5", "--out", str(out)])
+    assert result.exit_code == 0, result.output
+    assert "least drag at cl = 0.4, 0.55" in result.output
+    assert pl.read_parquet(out)["section_id"].to_list() == ["G", "A"]
+    bad = CliRunner().invoke(app, ["rank", str(catalog), "--cl", "0.55", "--weights", "a,b"])
+    assert bad.exit_code == 2
+
+
+def test_rank_command_takes_the_design_point_from_the_manifest(tmp_path):
+    from typer.testing import CliRunner
+
+    from wakerank.cli import app
+
+    catalog = _catalog(tmp_path / "cat")
+    manifest = json.loads((catalog / "manifest.json").read_text())
+    manifest["design"] = {"cl": 0.55, "min_thickness": 0.11, "max_abs_cm": 0.08}
+    (catalog / "manifest.json").write_text(json.dumps(manifest))
+    result = CliRunner().invoke(app, ["rank", str(catalog), "--out", str(tmp_path / "s.parquet")])
+    assert result.exit_code == 0, result.output
+    assert pl.read_parquet(tmp_path / "s.parquet")["section_id"].to_list() == ["A"]

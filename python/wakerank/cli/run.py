@@ -60,6 +60,13 @@ def run_command(
         f"{summary.cases - summary.computed_cases} kept from before), {summary.points} points, "
         f"{share:.0f}% converged"
     )
+    if summary.redone_parts:
+        typer.echo(f"recomputed {summary.redone_parts} incomplete part(s) from an earlier run")
+    if summary.superseded_parts:
+        typer.echo(
+            f"moved {summary.superseded_parts} part(s) of chunks no longer in the campaign to "
+            f"{target / 'superseded'}"
+        )
     if summary.failed_chunks:
         for failure in summary.failed_chunks:
             typer.echo(f"failed chunk {failure['chunk_id']}: {failure['message']}", err=True)
