@@ -15,8 +15,9 @@ from __future__ import annotations
 
 import hashlib
 import re
+from collections.abc import Sequence
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, Sequence
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -58,7 +59,7 @@ class Section:
     constructor itself takes arrays already in the core's ordering convention and checks them.
     """
 
-    __slots__ = ("_name", "_x", "_y", "_family", "_parameters", "_properties")
+    __slots__ = ("_family", "_name", "_parameters", "_properties", "_x", "_y")
 
     def __init__(
         self,
@@ -84,14 +85,14 @@ class Section:
         self._properties: dict[str, float] | None = None
 
     @classmethod
-    def _from_core(cls, triple: tuple[str, np.ndarray, np.ndarray], family: str, parameters: dict[str, Any]) -> "Section":
+    def _from_core(cls, triple: tuple[str, np.ndarray, np.ndarray], family: str, parameters: dict[str, Any]) -> Section:
         name, x, y = triple
         return cls(x, y, name, family=family, parameters=parameters, _checked=True)
 
     # ---- families -------------------------------------------------------------------------
 
     @classmethod
-    def naca(cls, code: str, *, closed_te: bool = False, points: int = DEFAULT_POINTS_PER_SIDE) -> "Section":
+    def naca(cls, code: str, *, closed_te: bool = False, points: int = DEFAULT_POINTS_PER_SIDE) -> Section:
         """A NACA section from its designation: "2412", "0012-34", "23012", "23112" (reflexed)."""
         parameters = dict(_core.naca_designation(code))
         family = parameters.pop("family")
@@ -107,7 +108,7 @@ class Section:
         *,
         closed_te: bool = False,
         points: int = DEFAULT_POINTS_PER_SIDE,
-    ) -> "Section":
+    ) -> Section:
         """NACA 4-digit section (NACA Report 460) from its parameters, fractions of chord."""
         parameters = dict(
             camber=float(camber),
@@ -129,7 +130,7 @@ class Section:
         max_thickness_position: float,
         *,
         points: int = DEFAULT_POINTS_PER_SIDE,
-    ) -> "Section":
+    ) -> Section:
         """NACA modified 4-digit section ("0012-34"; NACA Report 492, Abbott & von Doenhoff §6.4)."""
         parameters = dict(
             camber=float(camber),
@@ -159,7 +160,7 @@ class Section:
         reflexed: bool = False,
         closed_te: bool = False,
         points: int = DEFAULT_POINTS_PER_SIDE,
-    ) -> "Section":
+    ) -> Section:
         """NACA 5-digit section (NACA Report 610), standard or reflexed mean line."""
         parameters = dict(
             design_cl=float(design_cl),
@@ -185,7 +186,7 @@ class Section:
         n2: float = 1.0,
         points: int = DEFAULT_POINTS_PER_SIDE,
         name: str | None = None,
-    ) -> "Section":
+    ) -> Section:
         """CST section (Kulfan 2008): Bernstein coefficients per surface (lower ones usually negative)."""
         up = [float(v) for v in upper]
         lo = [float(v) for v in lower]
@@ -196,7 +197,7 @@ class Section:
     # ---- coordinates ----------------------------------------------------------------------
 
     @classmethod
-    def from_file(cls, path: str | Path, *, normalise: bool = True) -> "Section":
+    def from_file(cls, path: str | Path, *, normalise: bool = True) -> Section:
         """Read a coordinate file (x y columns, whitespace or commas; a loop in either
         direction or the two surfaces listed from the leading edge, with or without a count
         line). Errors name the file and line. The name is the file's name line or its stem."""
@@ -209,7 +210,7 @@ class Section:
         return cls(x, y, name, family="file", parameters={"path": source, "normalise": normalise}, _checked=True)
 
     @classmethod
-    def from_coordinates(cls, x: Any, y: Any, name: str = "coordinates", *, normalise: bool = False) -> "Section":
+    def from_coordinates(cls, x: Any, y: Any, name: str = "coordinates", *, normalise: bool = False) -> Section:
         """A section from point arrays in any accepted order; reordered to the convention and
         checked, optionally normalised to unit chord with the leading edge at the origin."""
         xa = _as_float_array(x, "x")
@@ -220,7 +221,7 @@ class Section:
         return cls._from_core(core, "coordinates", {"normalise": normalise})
 
     @classmethod
-    def from_spec(cls, spec: str, *, points: int = DEFAULT_POINTS_PER_SIDE, closed_te: bool = False) -> "Section":
+    def from_spec(cls, spec: str, *, points: int = DEFAULT_POINTS_PER_SIDE, closed_te: bool = False) -> Section:
         """A NACA designation ("2412", "NACA 23012", "0012-34") or the path of a coordinate file."""
         text = str(spec)
         path = Path(text)
@@ -327,14 +328,14 @@ class Section:
 
     # ---- operations -----------------------------------------------------------------------
 
-    def repanel(self, panels: int = DEFAULT_PANELS) -> "Section":
+    def repanel(self, panels: int = DEFAULT_PANELS) -> Section:
         """A new section with `panels` panels along a spline through this one's points,
         concentrated at the leading edge, the trailing edge and high curvature."""
         name, x, y = _core.section_repanel(self._x, self._y, self._name, int(panels))
         parameters = dict(self._parameters, repanelled_to=int(panels))
         return Section(x, y, name, family=self._family, parameters=parameters, _checked=True)
 
-    def to_frame(self) -> "pl.DataFrame":
+    def to_frame(self) -> pl.DataFrame:
         """The outline as a polars DataFrame with columns x, y."""
         import polars as pl
 
@@ -347,4 +348,4 @@ class Section:
         return f"Section({self._name!r}, family={self._family!r}, points={self._x.size}, id={self.geometry_id})"
 
 
-__all__ = ["Section", "DEFAULT_PANELS", "DEFAULT_POINTS_PER_SIDE"]
+__all__ = ["DEFAULT_PANELS", "DEFAULT_POINTS_PER_SIDE", "Section"]

@@ -3,10 +3,9 @@
 from __future__ import annotations
 
 import numpy as np
+import wakerank as wr
 from hypothesis import given, settings
 from hypothesis import strategies as st
-
-import wakerank as wr
 
 _numbers = st.one_of(
     st.floats(min_value=-2.0, max_value=2.0),

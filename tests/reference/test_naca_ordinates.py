@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-
 import wakerank as wr
 
 # NACA 0012 half-thickness, percent chord: Abbott & von Doenhoff, Theory of Wing Sections,

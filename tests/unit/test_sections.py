@@ -5,7 +5,6 @@ from __future__ import annotations
 import numpy as np
 import polars as pl
 import pytest
-
 import wakerank as wr
 
 

@@ -10,7 +10,7 @@ from wakerank.cli import app
 from wakerank.cli._errors import ErrorsAsMessages, fail
 
 
-def _table(section) -> "object":  # type: ignore[no-untyped-def]
+def _table(section) -> object:  # type: ignore[no-untyped-def]
     from rich.table import Table
 
     p = section.properties()
@@ -68,8 +68,9 @@ def section_command(
     ),
 ) -> None:
     """Print the geometric properties of a section; optionally draw it."""
-    import wakerank as wr
     from rich.console import Console
+
+    import wakerank as wr
 
     with ErrorsAsMessages():
         if points is not None and points < 6:

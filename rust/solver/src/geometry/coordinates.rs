@@ -89,6 +89,7 @@ pub fn parse_coordinates_normalised(text: &str, source: &str, normalise: bool) -
 fn parse_with(text: &str, source: &str, normalise: bool) -> Result<Section> {
     let mut name: Option<String> = None;
     let (mut x, mut y, mut lines) = (Vec::new(), Vec::new(), Vec::new());
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     for (k, raw) in text.lines().enumerate() {
         let line = raw.trim();
         if line.is_empty() || line.starts_with('#') {

@@ -86,9 +86,9 @@ pub(crate) fn join_surfaces(
 
 /// Check the `points_per_side` argument shared by the analytic families.
 pub(crate) fn check_points_per_side(points_per_side: usize) -> crate::Result<()> {
-    if !(6..=20_000).contains(&points_per_side) {
+    if !(6..=10_000).contains(&points_per_side) {
         return Err(crate::SolverError::input(format!(
-            "points per side must be between 6 and 20000, got {points_per_side}"
+            "points per side must be between 6 and 10000, got {points_per_side}"
         )));
     }
     Ok(())

@@ -27,9 +27,9 @@ const SAMPLES_PER_PANEL: usize = 40;
 /// A new section with `panels` + 1 points (`panels` panels between consecutive points) on
 /// the spline through `section`'s points, the first and last point unchanged.
 pub fn repanel(section: &Section, panels: usize) -> Result<Section> {
-    if !(10..=20_000).contains(&panels) {
+    if !(10..=19_999).contains(&panels) {
         return Err(SolverError::input(format!(
-            "panels must be between 10 and 20000, got {panels}"
+            "panels must be between 10 and 19999, got {panels}"
         )));
     }
     section.validate()?;

@@ -13,8 +13,9 @@ pub const MIN_POINTS: usize = 10;
 /// means a truncated or mis-ordered file (common practice).
 pub const MAX_TRAILING_EDGE_GAP: f64 = 0.05;
 
-/// Largest number of points accepted (keeps every check and spline cheap).
-pub const MAX_POINTS: usize = 200_000;
+/// Largest number of points accepted: keeps every check cheap, including the worst case of
+/// the self-intersection sweep; real sections need a few hundred.
+pub const MAX_POINTS: usize = 20_000;
 
 /// Point count and finiteness, on the input as given.
 pub(crate) fn check_count_and_finite(x: &[f64], y: &[f64], loc: &Locator) -> Result<()> {

@@ -142,3 +142,15 @@ fn file_errors_name_the_line() {
     let e = parse_coordinates(text, "foo.txt").unwrap_err().to_string();
     assert_eq!(e, "foo.txt line 6: expected two numbers, found 'abc'");
 }
+
+#[test]
+fn byte_order_mark_and_crlf_are_accepted() {
+    let s = naca2412();
+    let mut text = String::from("\u{feff}");
+    for i in 0..s.len() {
+        text.push_str(&format!("{:.9}\t{:.9}\r\n", s.x[i], s.y[i]));
+    }
+    let parsed = parse_coordinates(&text, "bom.txt").unwrap();
+    assert_eq!(parsed.len(), s.len());
+    assert_eq!(parsed.name, "bom.txt");
+}
