@@ -35,7 +35,7 @@ from scipy.integrate import cumulative_trapezoid
 from scipy.interpolate import CubicHermiteSpline
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-import falkner_skan_closures as fs  # noqa: E402
+import falkner_skan_closures as fs
 
 ROOT = Path(__file__).resolve().parents[1]
 OUTPUT = ROOT / "rust/solver/src/boundary_layer/data/amplification_envelope.csv"

@@ -12,8 +12,8 @@ import pytest
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT / "scripts"))
 
-import falkner_skan_closures as fs  # noqa: E402
-import orr_sommerfeld_envelope as ose  # noqa: E402
+import falkner_skan_closures as fs
+import orr_sommerfeld_envelope as ose
 
 TABLE = ROOT / "rust/solver/src/boundary_layer/data/amplification_envelope.csv"
 BLASIUS_H = 2.5911
