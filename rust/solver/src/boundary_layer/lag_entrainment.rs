@@ -95,55 +95,64 @@ pub(crate) fn state_skin_friction(state: &LayerState, reynolds: f64, wake: bool)
     }
 }
 
-/// Source terms (not multiplying d ln ue/ds) and gradient coefficients of the three equations.
-fn turbulent_terms(state: &LayerState, reynolds: f64, wake: bool) -> ([f64; 3], [f64; 3]) {
-    let h = state.shape_factor;
-    let theta = state.theta;
-    let ce = state.entrainment;
-    let re_theta = reynolds * state.edge_velocity * theta;
-    let cf0 = flat_plate_skin_friction(re_theta);
-    let cf = state_skin_friction(state, reynolds, wake);
-    let h1 = entrainment_shape_factor(h);
-    let equilibrium_gradient = equilibrium_pressure_gradient(h, cf);
-    let ce_eq = equilibrium_entrainment(h, cf);
-    let tau_eq = shear_stress_coefficient(ce_eq, cf0);
-    let tau = shear_stress_coefficient(ce, cf0);
-    let f = lag_factor(ce, cf0);
-    let lambda = dissipation_length_factor(wake);
-    let lag_source =
-        f / theta * (2.8 / (h + h1) * (tau_eq.sqrt() - lambda * tau.sqrt()) + equilibrium_gradient);
-    (
-        [0.5 * cf / theta, ce / (theta * h1), lag_source],
-        [-(h + 2.0), -1.0, -f],
-    )
+/// Terms of the three equations at one state: sources (not multiplying d ln ue/ds), the
+/// coefficients of d ln ue/ds, and H1. Computed once for the known start of an interval.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct TurbulentTerms {
+    source: [f64; 3],
+    gradient: [f64; 3],
+    entrainment_shape_factor: f64,
 }
 
-/// Residuals of momentum, entrainment and lag equations from `a` to `b` (trapezoidal rule for
-/// `weight` = 0.5, backward Euler for 1).
+impl TurbulentTerms {
+    pub(crate) fn new(state: &LayerState, reynolds: f64, wake: bool) -> Self {
+        let h = state.shape_factor;
+        let theta = state.theta;
+        let ce = state.entrainment;
+        let re_theta = reynolds * state.edge_velocity * theta;
+        let cf0 = flat_plate_skin_friction(re_theta);
+        let cf = state_skin_friction(state, reynolds, wake);
+        let h1 = entrainment_shape_factor(h);
+        let equilibrium_gradient = equilibrium_pressure_gradient(h, cf);
+        let ce_eq = equilibrium_entrainment(h, cf);
+        let tau_eq = shear_stress_coefficient(ce_eq, cf0);
+        let tau = shear_stress_coefficient(ce, cf0);
+        let f = lag_factor(ce, cf0);
+        let lambda = dissipation_length_factor(wake);
+        let lag_source = f / theta
+            * (2.8 / (h + h1) * (tau_eq.sqrt() - lambda * tau.sqrt()) + equilibrium_gradient);
+        Self {
+            source: [0.5 * cf / theta, ce / (theta * h1), lag_source],
+            gradient: [-(h + 2.0), -1.0, -f],
+            entrainment_shape_factor: h1,
+        }
+    }
+}
+
+/// Residuals of momentum, entrainment and lag equations from `a` (with its terms `at_a`) to `b`
+/// (trapezoidal rule for `weight` = 0.5, backward Euler for 1).
 pub(crate) fn turbulent_residuals(
     a: &LayerState,
+    at_a: &TurbulentTerms,
     b: &LayerState,
     ds: f64,
     weight: f64,
     reynolds: f64,
     wake: bool,
 ) -> [f64; 3] {
-    let (source_a, gradient_a) = turbulent_terms(a, reynolds, wake);
-    let (source_b, gradient_b) = turbulent_terms(b, reynolds, wake);
+    let at_b = TurbulentTerms::new(b, reynolds, wake);
     let d_log_ue = (b.edge_velocity / a.edge_velocity).ln();
     let changes = [
         (b.theta / a.theta).ln(),
-        (b.theta * entrainment_shape_factor(b.shape_factor)
-            / (a.theta * entrainment_shape_factor(a.shape_factor)))
-        .ln(),
+        (b.theta * at_b.entrainment_shape_factor / (a.theta * at_a.entrainment_shape_factor)).ln(),
         b.entrainment - a.entrainment,
     ];
+    let mean = |p: f64, q: f64| (1.0 - weight) * p + weight * q;
     let mut r = [0.0; 3];
     for k in 0..3 {
-        let mean = |p: f64, q: f64| (1.0 - weight) * p + weight * q;
         r[k] = changes[k]
-            - ds * mean(source_a[k], source_b[k])
-            - mean(gradient_a[k], gradient_b[k]) * d_log_ue;
+            - ds * mean(at_a.source[k], at_b.source[k])
+            - mean(at_a.gradient[k], at_b.gradient[k]) * d_log_ue;
     }
     r
 }

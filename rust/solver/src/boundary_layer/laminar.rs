@@ -33,48 +33,56 @@ pub(crate) fn laminar_coefficients(
     )
 }
 
-/// Right-hand sides of the laminar equations that do not multiply d ln ue/ds:
-/// (Cf/(2θ), (2CD − H*Cf/2)/θ), and the coefficients of d ln ue/ds: (−(H+2), H*(H−1)).
-fn laminar_terms(
-    state: &LayerState,
-    reynolds: f64,
-    closure: &dyn LaminarClosure,
-) -> ([f64; 2], [f64; 2]) {
-    let (cf, cd) = laminar_coefficients(state, reynolds, closure);
-    let h = state.shape_factor;
-    let h_star = closure.energy_shape_factor(h);
-    let theta = state.theta;
-    (
-        [0.5 * cf / theta, (2.0 * cd - 0.5 * h_star * cf) / theta],
-        [-(h + 2.0), h_star * (h - 1.0)],
-    )
+/// Terms of the laminar equations at one state: the right-hand sides that do not multiply
+/// d ln ue/ds, (Cf/(2θ), (2CD − H*Cf/2)/θ), their coefficients of d ln ue/ds, (−(H+2), H*(H−1)),
+/// and H*. Computed once for the known start of an interval.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct LaminarTerms {
+    source: [f64; 2],
+    gradient: [f64; 2],
+    energy_shape_factor: f64,
 }
 
-/// Residuals of the momentum and kinetic-energy equations from `a` to `b`: trapezoidal rule for
-/// `weight` = 0.5, backward Euler for 1 (used where the start state is only approximate).
+impl LaminarTerms {
+    pub(crate) fn new(state: &LayerState, reynolds: f64, closure: &dyn LaminarClosure) -> Self {
+        let (cf, cd) = laminar_coefficients(state, reynolds, closure);
+        let h = state.shape_factor;
+        let h_star = closure.energy_shape_factor(h);
+        let theta = state.theta;
+        Self {
+            source: [0.5 * cf / theta, (2.0 * cd - 0.5 * h_star * cf) / theta],
+            gradient: [-(h + 2.0), h_star * (h - 1.0)],
+            energy_shape_factor: h_star,
+        }
+    }
+}
+
+/// Residuals of the momentum and kinetic-energy equations from `a` (with its terms `at_a`) to
+/// `b`: trapezoidal rule for `weight` = 0.5, backward Euler for 1 (used where the start state is
+/// only approximate).
 pub(crate) fn laminar_residuals(
     a: &LayerState,
+    at_a: &LaminarTerms,
     b: &LayerState,
     ds: f64,
     weight: f64,
     reynolds: f64,
     closure: &dyn LaminarClosure,
 ) -> [f64; 2] {
-    let (source_a, gradient_a) = laminar_terms(a, reynolds, closure);
-    let (source_b, gradient_b) = laminar_terms(b, reynolds, closure);
+    let at_b = LaminarTerms::new(b, reynolds, closure);
     let d_log_ue = (b.edge_velocity / a.edge_velocity).ln();
-    let d_log_theta = (b.theta / a.theta).ln();
-    let d_energy =
-        closure.energy_shape_factor(b.shape_factor) - closure.energy_shape_factor(a.shape_factor);
+    let changes = [
+        (b.theta / a.theta).ln(),
+        at_b.energy_shape_factor - at_a.energy_shape_factor,
+    ];
     let mean = |p: f64, q: f64| (1.0 - weight) * p + weight * q;
-    [
-        d_log_theta
-            - ds * mean(source_a[0], source_b[0])
-            - mean(gradient_a[0], gradient_b[0]) * d_log_ue,
-        d_energy
-            - ds * mean(source_a[1], source_b[1])
-            - mean(gradient_a[1], gradient_b[1]) * d_log_ue,
-    ]
+    let mut r = [0.0; 2];
+    for k in 0..2 {
+        r[k] = changes[k]
+            - ds * mean(at_a.source[k], at_b.source[k])
+            - mean(at_a.gradient[k], at_b.gradient[k]) * d_log_ue;
+    }
+    r
 }
 
 /// Stagnation-flow momentum thickness at the first station: θ = 0.2923√(ν/K), K = ue/s.

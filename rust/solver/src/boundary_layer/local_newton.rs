@@ -65,10 +65,16 @@ fn solve_linear<const N: usize>(mut a: [[f64; N]; N], mut b: [f64; N]) -> Option
 }
 
 /// Runs Newton's method from `x0` on `residual`.
+///
+/// Modified Newton: the Jacobian — handed in through `jacobian`, or computed by forward
+/// differences — is kept while it reduces the residual fast enough (by 4× per step) and
+/// refreshed otherwise; only a fresh Jacobian's step backtracks. On success the last Jacobian
+/// is handed back.
 pub(crate) fn solve<const N: usize>(
     x0: [f64; N],
     residual: impl Fn(&[f64; N]) -> [f64; N],
     options: &NewtonOptions<N>,
+    jacobian: &mut Option<[[f64; N]; N]>,
 ) -> NewtonOutcome<N> {
     let clamp = |x: &mut [f64; N]| {
         for j in 0..N {
@@ -86,18 +92,26 @@ pub(crate) fn solve<const N: usize>(
         if !norm.is_finite() {
             break;
         }
-        let mut jacobian = [[0.0; N]; N];
-        for j in 0..N {
-            let mut xp = x;
-            let h = 1e-7 * x[j].abs().max(options.typical[j]);
-            xp[j] += h;
-            let rp = residual(&xp);
-            for i in 0..N {
-                jacobian[i][j] = (rp[i] - r[i]) / h;
+        let fresh = jacobian.is_none();
+        let matrix = *jacobian.get_or_insert_with(|| {
+            let mut m = [[0.0; N]; N];
+            for j in 0..N {
+                let mut xp = x;
+                let h = 1e-7 * x[j].abs().max(options.typical[j]);
+                xp[j] += h;
+                let rp = residual(&xp);
+                for i in 0..N {
+                    m[i][j] = (rp[i] - r[i]) / h;
+                }
             }
-        }
-        let Some(mut dx) = solve_linear(jacobian, r.map(|v| -v)) else {
-            break;
+            m
+        });
+        let Some(mut dx) = solve_linear(matrix, r.map(|v| -v)) else {
+            *jacobian = None;
+            if fresh {
+                break;
+            }
+            continue;
         };
         let mut scale: f64 = 1.0;
         for j in 0..N {
@@ -108,7 +122,7 @@ pub(crate) fn solve<const N: usize>(
         dx.iter_mut().for_each(|d| *d *= scale);
         let mut accepted = false;
         let mut factor = 1.0;
-        for _ in 0..8 {
+        for _ in 0..if fresh { 8 } else { 1 } {
             let mut trial = x;
             for j in 0..N {
                 trial[j] += factor * dx[j];
@@ -116,7 +130,10 @@ pub(crate) fn solve<const N: usize>(
             clamp(&mut trial);
             let rt = residual(&trial);
             let nt = max_abs(&rt);
-            if nt.is_finite() && (nt < norm || factor < 0.02) {
+            if nt.is_finite() && (nt < norm || (fresh && factor < 0.02)) {
+                if nt > 0.25 * norm {
+                    *jacobian = None;
+                }
                 x = trial;
                 r = rt;
                 norm = nt;
@@ -126,13 +143,17 @@ pub(crate) fn solve<const N: usize>(
             factor *= 0.5;
         }
         if !accepted {
-            break;
+            *jacobian = None;
+            if fresh {
+                break;
+            }
         }
     }
-    NewtonOutcome {
-        x,
-        converged: norm < options.tolerance,
+    let converged = norm < options.tolerance;
+    if !converged {
+        *jacobian = None;
     }
+    NewtonOutcome { x, converged }
 }
 
 #[cfg(test)]
@@ -153,6 +174,7 @@ mod tests {
             [0.5, 0.5],
             |x| [x[0] * x[0] + x[1] * x[1] - 4.0, x[0] - x[1]],
             &options,
+            &mut None,
         );
         assert!(out.converged);
         assert!((out.x[0] - 2f64.sqrt()).abs() < 1e-9);
@@ -168,7 +190,7 @@ mod tests {
             max_step: [0.5],
             typical: [1.0],
         };
-        let out = solve([0.3], |x| [x[0] * x[0] + 1.0], &options);
+        let out = solve([0.3], |x| [x[0] * x[0] + 1.0], &options, &mut None);
         assert!(!out.converged);
         assert!(out.x[0].is_finite());
     }

@@ -3,12 +3,12 @@
 //! rule, second order) by a local Newton iteration together with the interaction law.
 
 use super::lag_entrainment::{
-    state_skin_friction, turbulent_residuals, turbulent_start, ENTRAINMENT_RANGE,
+    state_skin_friction, turbulent_residuals, turbulent_start, TurbulentTerms, ENTRAINMENT_RANGE,
     TURBULENT_SHAPE_FACTOR_RANGE, WAKE_SHAPE_FACTOR_RANGE,
 };
 use super::laminar::{
-    laminar_coefficients, laminar_residuals, stagnation_theta, LAMINAR_SHAPE_FACTOR_RANGE,
-    STAGNATION_SHAPE_FACTOR,
+    laminar_coefficients, laminar_residuals, stagnation_theta, LaminarTerms,
+    LAMINAR_SHAPE_FACTOR_RANGE, STAGNATION_SHAPE_FACTOR,
 };
 use super::laminar_closure::LaminarClosure;
 use super::local_newton::{solve, NewtonOptions};
@@ -67,6 +67,7 @@ fn laminar_step_with(
     settings: &MarchSettings,
     closure: &dyn LaminarClosure,
     weight: f64,
+    memory: &mut StepMemory,
 ) -> (LayerState, bool) {
     let re = settings.reynolds;
     let unpack = |x: &[f64; 3]| LayerState {
@@ -89,14 +90,19 @@ fn laminar_step_with(
         [1.0, 0.5, 0.2 * ue_guess.max(0.05)],
         [1.0, 1.0, 1.0],
     );
+    let at_a = LaminarTerms::new(a, re, closure);
     let outcome = solve(
-        [a.theta.ln(), a.shape_factor, ue_guess],
+        match memory.guess {
+            Some(g) => [g.theta.ln(), g.shape_factor, g.edge_velocity],
+            None => [a.theta.ln(), a.shape_factor, ue_guess],
+        },
         |x| {
             let b = unpack(x);
-            let [r1, r2] = laminar_residuals(a, &b, ds, weight, re, closure);
+            let [r1, r2] = laminar_residuals(a, &at_a, &b, ds, weight, re, closure);
             [r1, r2, edge.residual(&b)]
         },
         &options,
+        &mut None,
     );
     (unpack(&outcome.x), outcome.converged)
 }
@@ -109,6 +115,7 @@ fn turbulent_step_with(
     settings: &MarchSettings,
     wake: bool,
     weight: f64,
+    memory: &mut StepMemory,
 ) -> (LayerState, bool) {
     let re = settings.reynolds;
     let unpack = |x: &[f64; 4]| LayerState {
@@ -142,20 +149,26 @@ fn turbulent_step_with(
         [1.0, 1.0, 0.01, 1.0],
     );
     let guess_h = a.shape_factor.clamp(h_range.0, h_range.1);
+    let at_a = TurbulentTerms::new(a, re, wake);
     let outcome = solve(
-        [a.theta.ln(), guess_h, a.entrainment, ue_guess],
+        match memory.guess {
+            Some(g) => [g.theta.ln(), g.shape_factor, g.entrainment, g.edge_velocity],
+            None => [a.theta.ln(), guess_h, a.entrainment, ue_guess],
+        },
         |x| {
             let b = unpack(x);
-            let [r1, r2, r3] = turbulent_residuals(a, &b, ds, weight, re, wake);
+            let [r1, r2, r3] = turbulent_residuals(a, &at_a, &b, ds, weight, re, wake);
             [r1, r2, r3, edge.residual(&b)]
         },
         &options,
+        &mut None,
     );
     (unpack(&outcome.x), outcome.converged)
 }
 
 /// Laminar interval: trapezoidal rule (backward Euler when `start` is set or the trapezoidal
-/// iteration fails, which is more robust and first order for that interval only).
+/// iteration fails, which is more robust and first order for that interval only). `memory`
+/// supplies the Newton start (the previous station's state when it has no guess).
 pub(crate) fn laminar_step(
     a: &LayerState,
     ds: f64,
@@ -163,14 +176,16 @@ pub(crate) fn laminar_step(
     settings: &MarchSettings,
     closure: &dyn LaminarClosure,
     start: bool,
+    memory: &mut StepMemory,
 ) -> (LayerState, bool) {
     if !start {
-        let (state, ok) = laminar_step_with(a, ds, edge, settings, closure, 0.5);
+        let (state, ok) = laminar_step_with(a, ds, edge, settings, closure, 0.5, memory);
         if ok {
             return (state, ok);
         }
     }
-    laminar_step_with(a, ds, edge, settings, closure, 1.0)
+    memory.guess = None;
+    laminar_step_with(a, ds, edge, settings, closure, 1.0, memory)
 }
 
 /// Turbulent or wake interval, with the same fallback as [`laminar_step`].
@@ -181,14 +196,36 @@ pub(crate) fn turbulent_step(
     settings: &MarchSettings,
     wake: bool,
     start: bool,
+    memory: &mut StepMemory,
 ) -> (LayerState, bool) {
     if !start {
-        let (state, ok) = turbulent_step_with(a, ds, edge, settings, wake, 0.5);
+        let (state, ok) = turbulent_step_with(a, ds, edge, settings, wake, 0.5, memory);
         if ok {
             return (state, ok);
         }
     }
-    turbulent_step_with(a, ds, edge, settings, wake, 1.0)
+    memory.guess = None;
+    turbulent_step_with(a, ds, edge, settings, wake, 1.0, memory)
+}
+
+/// Newton start carried along a march: the first iterate for the next station, extrapolated
+/// from the last two (handing over the previous station's Jacobian as well was measured to cost
+/// more iterations than it saves, so each station computes its own).
+#[derive(Debug, Default, Clone)]
+pub(crate) struct StepMemory {
+    pub guess: Option<LayerState>,
+}
+
+/// Newton start from linear extrapolation of the last two states (ratio = Δs_new/Δs_old);
+/// θ extrapolated in ln θ, the result clipped to stay physical.
+pub(crate) fn extrapolated(older: &LayerState, newer: &LayerState, ratio: f64) -> LayerState {
+    let ahead = |p: f64, q: f64| q + ratio * (q - p);
+    LayerState {
+        theta: (newer.theta.ln() + ratio * (newer.theta / older.theta).ln()).exp(),
+        shape_factor: ahead(older.shape_factor, newer.shape_factor).max(1.0005),
+        entrainment: ahead(older.entrainment, newer.entrainment),
+        edge_velocity: ahead(older.edge_velocity, newer.edge_velocity).max(MIN_EDGE_VELOCITY),
+    }
 }
 
 /// Builds the public station record of a state.
@@ -352,6 +389,8 @@ pub fn march_surface(
     let mut n_amp = 0.0;
     let mut all_converged = true;
     let mut tracker = SeparationTracker::default();
+    let mut previous: Option<LayerState> = None;
+    let mut memory = StepMemory::default();
     let mut stations = Vec::with_capacity(n);
     stations.push(make_station(
         input.s[0],
@@ -366,8 +405,17 @@ pub fn march_surface(
         let (sa, sb) = (input.s[i - 1], input.s[i]);
         let ds = sb - sa;
         let prev = state;
+        memory.guess = previous
+            .filter(|_| {
+                stations[i - 1].regime == regime && i >= 2 && stations[i - 2].regime == regime
+            })
+            .map(|older: LayerState| {
+                extrapolated(&older, &prev, (ds / (sa - input.s[i - 2])).min(2.0))
+            });
+        previous = Some(prev);
         let (next, ok) = if regime == Regime::Laminar {
-            let (lam, lam_ok) = laminar_step(&prev, ds, edge(i), settings, closure, i == 1);
+            let (lam, lam_ok) =
+                laminar_step(&prev, ds, edge(i), settings, closure, i == 1, &mut memory);
             let (lam, finite) = finite_or(lam, &prev);
             if !(lam_ok && finite) {
                 // Laminar breakdown: turbulent from the previous station.
@@ -381,7 +429,9 @@ pub fn march_surface(
                 transition_s.get_or_insert(sa);
                 transition_forced = true;
                 let start = turbulent_start(&prev, re);
-                let (turb, _) = turbulent_step(&start, ds, edge(i), settings, false, true);
+                memory.guess = None;
+                let (turb, _) =
+                    turbulent_step(&start, ds, edge(i), settings, false, true, &mut memory);
                 (finite_or(turb, &start).0, false)
             } else {
                 let n_next = n_amp + 0.5 * ds * (growth(&prev) + growth(&lam));
@@ -407,7 +457,8 @@ pub fn march_surface(
                 }
             }
         } else {
-            let (turb, turb_ok) = turbulent_step(&prev, ds, edge(i), settings, false, i == 1);
+            let (turb, turb_ok) =
+                turbulent_step(&prev, ds, edge(i), settings, false, i == 1, &mut memory);
             let (turb, finite) = finite_or(turb, &prev);
             (turb, turb_ok && finite)
         };

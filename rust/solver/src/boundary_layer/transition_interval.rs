@@ -3,7 +3,7 @@
 
 use super::lag_entrainment::turbulent_start;
 use super::laminar_closure::LaminarClosure;
-use super::march::{finite_or, laminar_step, turbulent_step, EdgeCondition};
+use super::march::{finite_or, laminar_step, turbulent_step, EdgeCondition, StepMemory};
 use super::station::{interacted_velocity, LayerState, MarchSettings};
 
 /// An interval [sa, sb] in which the layer becomes turbulent.
@@ -62,7 +62,15 @@ impl TransitionInterval<'_> {
         let begin = turbulent_start(at_transition, re);
         let rest = self.sb - s_tr;
         if rest > 1e-9 * (self.sb - self.sa) {
-            let (turb, ok) = turbulent_step(&begin, rest, edge, settings, false, true);
+            let (turb, ok) = turbulent_step(
+                &begin,
+                rest,
+                edge,
+                settings,
+                false,
+                true,
+                &mut StepMemory::default(),
+            );
             let (turb, finite) = finite_or(turb, &begin);
             (turb, ok && finite)
         } else {
@@ -102,13 +110,28 @@ impl TransitionInterval<'_> {
         };
         let mut ue_b = laminar_interacted.edge_velocity;
         for _ in 0..30 {
-            let (laminar_b, ok_b) =
-                laminar_step(a, ds, prescribed(ue_b), settings, closure, self.first);
+            let (laminar_b, ok_b) = laminar_step(
+                a,
+                ds,
+                prescribed(ue_b),
+                settings,
+                closure,
+                self.first,
+                &mut StepMemory::default(),
+            );
             let (s_tr, forced, amplification) = self.locate(&laminar_b, settings, growth);
             let w = (s_tr - self.sa) / ds;
             let (at_transition, ok_tr) = if w > 1e-9 {
                 let ue_tr = a.edge_velocity + w * (ue_b - a.edge_velocity);
-                laminar_step(a, w * ds, prescribed(ue_tr), settings, closure, self.first)
+                laminar_step(
+                    a,
+                    w * ds,
+                    prescribed(ue_tr),
+                    settings,
+                    closure,
+                    self.first,
+                    &mut StepMemory::default(),
+                )
             } else {
                 (*a, true)
             };
@@ -141,7 +164,15 @@ impl TransitionInterval<'_> {
                     edges[1].interaction_coefficient,
                 ),
             };
-            laminar_step(a, w * ds, interpolated, settings, closure, self.first)
+            laminar_step(
+                a,
+                w * ds,
+                interpolated,
+                settings,
+                closure,
+                self.first,
+                &mut StepMemory::default(),
+            )
         } else {
             (*a, true)
         };

@@ -2,7 +2,9 @@
 //! friction and the wake's dissipation-length factor (Green, Weeks & Brooman 1977).
 
 use super::lag_entrainment::WAKE_SHAPE_FACTOR_RANGE;
-use super::march::{finite_or, make_station, turbulent_step, EdgeCondition};
+use super::march::{
+    extrapolated, finite_or, make_station, turbulent_step, EdgeCondition, StepMemory,
+};
 use super::station::{
     interacted_velocity, validate_input, LayerState, MarchSettings, Regime, SideInput,
     SideSolution, Station,
@@ -66,6 +68,8 @@ pub fn march_wake(
         0.0
     };
     let mut all_converged = true;
+    let mut previous: Option<LayerState> = None;
+    let mut memory = StepMemory::default();
     solution.stations.push(make_station(
         input.s[0],
         &state,
@@ -76,6 +80,11 @@ pub fn march_wake(
     ));
     for i in 1..input.s.len() {
         let prev = state;
+        memory.guess = previous.map(|older: LayerState| {
+            let ratio = (input.s[i] - input.s[i - 1]) / (input.s[i - 1] - input.s[i - 2]);
+            extrapolated(&older, &prev, ratio.min(2.0))
+        });
+        previous = Some(prev);
         let (next, ok) = turbulent_step(
             &prev,
             input.s[i] - input.s[i - 1],
@@ -83,6 +92,7 @@ pub fn march_wake(
             settings,
             true,
             i == 1,
+            &mut memory,
         );
         let (next, finite_ok) = finite_or(next, &prev);
         all_converged &= ok && finite_ok;
