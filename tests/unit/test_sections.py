@@ -150,3 +150,20 @@ def test_five_digit_and_modified_keywords() -> None:
     assert a.geometry_id == wr.Section.naca("23012").geometry_id
     b = wr.Section.naca4_modified(0.0, 0.0, 0.12, le_radius_index=3, max_thickness_position=0.4)
     assert b.geometry_id == wr.Section.naca("0012-34").geometry_id
+
+
+def test_cli_section_prints_properties_and_draws(tmp_path) -> None:  # type: ignore[no-untyped-def]
+    import subprocess
+    import sys
+
+    out = tmp_path / "s.png"
+    result = subprocess.run(
+        [sys.executable, "-c", "from wakerank.cli import main; main()", "section", "23012", "--plot", str(out), "--points", "80"],
+        capture_output=True,
+        check=False,
+        text=True,
+        timeout=120,
+    )
+    assert result.returncode == 0, result.stderr
+    assert "NACA 23012" in result.stdout and "thickness t/c" in result.stdout and "0.12" in result.stdout
+    assert out.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
