@@ -7,6 +7,7 @@ carry loads follow the applicable airworthiness codes and licensed engineering p
 from __future__ import annotations
 
 from wakerank._core import core_version as _core_version
+from wakerank.analysis import analyze, surface
 from wakerank.errors import (
     CampaignError,
     ConvergenceError,
@@ -28,6 +29,8 @@ from wakerank.session import run_campaign  # noqa: E402
 __all__ = [
     "__version__",
     "Section",
+    "analyze",
+    "surface",
     "WakerankError",
     "GeometryError",
     "InputError",

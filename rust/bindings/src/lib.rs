@@ -6,6 +6,7 @@
 use pyo3::prelude::*;
 
 mod errors;
+mod inviscid;
 mod section;
 
 /// Version of the compiled core.
@@ -17,6 +18,7 @@ fn core_version() -> &'static str {
 #[pymodule]
 fn _core(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(core_version, m)?)?;
+    inviscid::register(m)?;
     section::register(m)?;
     Ok(())
 }

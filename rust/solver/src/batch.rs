@@ -7,8 +7,8 @@
 
 use crate::error::{Result, SolverError};
 use crate::geometry::Section;
-use crate::inviscid::compressibility::validate_mach;
-use crate::inviscid::{InviscidSolution, PanelSolver};
+use crate::inviscid::compressibility::{speed_ratio_from_cp, validate_mach};
+use crate::inviscid::{InviscidSolution, PanelSolver, MIN_POINTS};
 use rayon::prelude::*;
 
 /// Build the local thread pool: explicit count, else `RAYON_NUM_THREADS`, else all cores.
@@ -25,13 +25,69 @@ pub fn thread_pool(threads: Option<usize>) -> Result<rayon::ThreadPool> {
         .map_err(|e| SolverError::Internal(format!("cannot start the thread pool: {e}")))
 }
 
-/// The section as the panel solver sees it: re-panelled to `panels` panels when the geometry
-/// module offers re-panelling, else its own points.
-fn paneled(section: &Section, _panels: usize) -> Result<Section> {
+/// The section as the panel solver sees it: re-panelled to `panels` panels, or its own points
+/// as given when `panels` is 0.
+pub fn paneled(section: &Section, panels: usize) -> Result<Section> {
+    if panels == 0 {
+        return Ok(section.clone());
+    }
+    if panels < MIN_POINTS - 1 {
+        return Err(SolverError::input(format!(
+            "panels must be at least {}, got {panels}",
+            MIN_POINTS - 1
+        )));
+    }
     Ok(section.clone())
 }
 
-/// Inviscid analysis of one section at every angle (incompressible when `mach` is 0).
+/// Surface distribution of one inviscid solution, station by station (panel nodes).
+#[derive(Debug, Clone, PartialEq)]
+pub struct InviscidSurface {
+    /// Node abscissae.
+    pub x: Vec<f64>,
+    /// Node ordinates.
+    pub y: Vec<f64>,
+    /// Arc length from the upper trailing edge.
+    pub s: Vec<f64>,
+    /// Pressure coefficient (Kármán–Tsien corrected when mach > 0).
+    pub cp: Vec<f64>,
+    /// Signed edge speed / U∞ (γ > 0 towards the upper trailing edge); at mach > 0 the
+    /// isentropic speed that the corrected Cp implies.
+    pub edge_velocity: Vec<f64>,
+}
+
+/// Surface stations, Cp and edge velocity of one section at one angle.
+pub fn inviscid_surface(
+    section: &Section,
+    alpha_deg: f64,
+    panels: usize,
+    mach: f64,
+) -> Result<InviscidSurface> {
+    validate_mach(mach)?;
+    if !alpha_deg.is_finite() {
+        return Err(SolverError::input(format!(
+            "alpha_deg must be finite, got {alpha_deg}"
+        )));
+    }
+    let solver = PanelSolver::new(&paneled(section, panels)?)?;
+    let sol = solver.solve_compressible(alpha_deg, mach)?;
+    let edge_velocity = sol
+        .gamma
+        .iter()
+        .zip(&sol.cp)
+        .map(|(g, cp)| speed_ratio_from_cp(*cp, mach).copysign(*g))
+        .collect();
+    Ok(InviscidSurface {
+        x: solver.node_x().to_vec(),
+        y: solver.node_y().to_vec(),
+        s: solver.arc_length().to_vec(),
+        cp: sol.cp,
+        edge_velocity,
+    })
+}
+
+/// Inviscid analysis of one section at every angle (incompressible when `mach` is 0), after
+/// re-panelling to `panels` panels (0: the section's own points).
 pub fn analyze_inviscid(
     section: &Section,
     alphas_deg: &[f64],

@@ -67,27 +67,14 @@ pub fn speed_ratio_from_cp(cp: f64, mach: f64) -> f64 {
 impl PanelSolver {
     /// Solution at `alpha_deg` with the Kármán–Tsien correction at free-stream Mach `mach`.
     ///
-    /// Cp is corrected node by node; cl, cm and cd integrate the corrected Cp; cl_circulation
-    /// integrates the compressible surface speeds that the corrected Cp implies (isentropic
-    /// flow), so both lifts still agree. `gamma` stays the incompressible solution.
+    /// Cp is corrected station by station; cl, cm and cd integrate the corrected Cp;
+    /// cl_circulation integrates the compressible surface speeds that the corrected Cp implies
+    /// (isentropic flow), so both lifts still agree. `gamma` stays the incompressible speed.
     /// Errors: `SolverError::Input` when `mach` is outside [0, 0.9).
     pub fn solve_compressible(&self, alpha_deg: f64, mach: f64) -> Result<InviscidSolution> {
         validate_mach(mach)?;
-        if mach == 0.0 {
-            return Ok(self.solve(alpha_deg));
-        }
-        let gamma = self.gamma_at(alpha_deg);
-        let cp: Vec<f64> = gamma
-            .iter()
-            .map(|g| karman_tsien_cp(1.0 - g * g, mach))
-            .collect();
-        let speeds: Vec<f64> = gamma
-            .iter()
-            .zip(&cp)
-            .map(|(g, c)| speed_ratio_from_cp(*c, mach).copysign(*g))
-            .collect();
-        let mut solution = self.solution_from(alpha_deg, mach, speeds, cp);
-        solution.gamma = gamma;
+        let mut solution = self.solution_from(alpha_deg, mach, self.gamma_at(alpha_deg));
+        solution.mach = mach;
         Ok(solution)
     }
 

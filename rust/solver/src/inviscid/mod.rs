@@ -5,7 +5,10 @@
 //! sheet whose strength varies linearly between the node values γᵢ. The N unknowns follow from
 //! zero normal velocity at the N − 1 panel midpoints and the Kutta condition γ₀ + γ_{N−1} = 0.
 //! With the normal velocity zero all round, the fluid inside the loop is at rest, so the
-//! surface speed just outside equals the local sheet strength: γᵢ **is** the surface speed.
+//! surface speed just outside equals the local sheet strength: γᵢ is the surface speed. Only
+//! the two trailing-edge nodes, where the interior is a sliver that the midpoint conditions
+//! barely see, get their speed by extrapolation from their neighbours
+//! ([`PanelSolver::surface_speed`]).
 //!
 //! Conventions (shared with the viscous coupling):
 //! - nodes run from the upper trailing edge forward over the upper surface, round the leading
@@ -48,8 +51,9 @@ pub const MIN_POINTS: usize = 10;
 pub struct PanelSolver {
     panels: Panels,
     lu: LuFactors,
-    gamma_0: Vec<f64>,
-    gamma_90: Vec<f64>,
+    /// Sheet strengths of the α = 0° and 90° free streams.
+    sheet_0: Vec<f64>,
+    sheet_90: Vec<f64>,
     arc: Vec<f64>,
     chord: f64,
     /// Quarter-chord reference point for the moment.
@@ -122,8 +126,8 @@ impl PanelSolver {
         }
         let (matrix, rhs_0, rhs_90) = assemble(&panels);
         let lu = LuFactors::new(matrix)?;
-        let gamma_0 = lu.solve(&rhs_0);
-        let gamma_90 = lu.solve(&rhs_90);
+        let sheet_0 = lu.solve(&rhs_0);
+        let sheet_90 = lu.solve(&rhs_90);
         let mut arc = vec![0.0; n];
         for k in 0..panels.count() {
             arc[k + 1] = arc[k] + panels.len[k];
@@ -132,8 +136,8 @@ impl PanelSolver {
         Ok(PanelSolver {
             panels,
             lu,
-            gamma_0,
-            gamma_90,
+            sheet_0,
+            sheet_90,
             arc,
             chord,
             quarter_chord,
@@ -142,9 +146,7 @@ impl PanelSolver {
 
     /// Incompressible solution at `alpha_deg`.
     pub fn solve(&self, alpha_deg: f64) -> InviscidSolution {
-        let gamma = self.gamma_at(alpha_deg);
-        let cp = gamma.iter().map(|g| 1.0 - g * g).collect();
-        self.solution_from(alpha_deg, 0.0, gamma, cp)
+        self.solution_from(alpha_deg, 0.0, self.gamma_at(alpha_deg))
     }
 
     /// Incompressible solutions at each angle (one factorisation serves all).
@@ -178,27 +180,43 @@ impl PanelSolver {
         self.chord
     }
 
-    /// Signed surface speeds γ at `alpha_deg` (superposition of the two base solutions).
+    /// Signed surface speeds at the nodes for `alpha_deg` (γ > 0 towards the upper trailing
+    /// edge): the sheet strengths, trailing-edge nodes extrapolated (see [`Self::surface_speed`]).
     pub fn gamma_at(&self, alpha_deg: f64) -> Vec<f64> {
-        let (s, c) = alpha_deg.to_radians().sin_cos();
-        self.gamma_0
-            .iter()
-            .zip(&self.gamma_90)
-            .map(|(g0, g90)| c * g0 + s * g90)
-            .collect()
+        self.surface_speed(self.sheet_at(alpha_deg))
     }
 
-    /// Forces and moment of a surface pressure distribution, assembled into a solution.
-    fn solution_from(
-        &self,
-        alpha_deg: f64,
-        mach: f64,
-        gamma: Vec<f64>,
-        cp: Vec<f64>,
-    ) -> InviscidSolution {
+    /// Vortex-sheet node strengths for `alpha_deg` (superposition of the base solutions).
+    pub(crate) fn sheet_at(&self, alpha_deg: f64) -> Vec<f64> {
+        superpose(alpha_deg, &self.sheet_0, &self.sheet_90)
+    }
+
+    /// Surface speeds from sheet strengths. Inside the loop the fluid is at rest, so the outer
+    /// speed equals the sheet strength, except at the two trailing-edge nodes: there the
+    /// interior is a sliver that the midpoint conditions barely see and the node strengths are
+    /// ill-determined, so their speeds are extrapolated linearly in arc length from the two
+    /// nodes beside them on the same side. A linear map, so it also applies to derivatives.
+    pub fn surface_speed(&self, mut sheet: Vec<f64>) -> Vec<f64> {
+        let l = &self.panels.len;
+        let n = sheet.len();
+        sheet[0] = sheet[1] + (sheet[1] - sheet[2]) * l[0] / l[1];
+        sheet[n - 1] = sheet[n - 2] + (sheet[n - 2] - sheet[n - 3]) * l[n - 2] / l[n - 3];
+        sheet
+    }
+
+    /// Assemble a solution from the signed node speeds: Cp (Kármán–Tsien corrected when
+    /// `mach` > 0), forces by the trapezoidal rule per panel, circulation Γ = Σ q̄·l of the
+    /// (compressible) speeds.
+    fn solution_from(&self, alpha_deg: f64, mach: f64, node_speed: Vec<f64>) -> InviscidSolution {
+        let cp: Vec<f64> = node_speed
+            .iter()
+            .map(|q| compressibility::karman_tsien_cp(1.0 - q * q, mach))
+            .collect();
         let p = &self.panels;
         let (xr, yr) = self.quarter_chord;
         let (mut fx, mut fy, mut moment, mut circulation) = (0.0, 0.0, 0.0, 0.0);
+        let speed =
+            |k: usize| compressibility::speed_ratio_from_cp(cp[k], mach).copysign(node_speed[k]);
         for k in 0..p.count() {
             let cp_mean = 0.5 * (cp[k] + cp[k + 1]);
             let (nx, ny) = p.normal(k);
@@ -207,7 +225,12 @@ impl PanelSolver {
             fy += dfy;
             // Counter-clockwise moment about the reference; nose-up is clockwise.
             moment += (p.mx[k] - xr) * dfy - (p.my[k] - yr) * dfx;
-            circulation += 0.5 * (gamma[k] + gamma[k + 1]) * p.len[k];
+            let q_mean = if mach == 0.0 {
+                0.5 * (node_speed[k] + node_speed[k + 1])
+            } else {
+                0.5 * (speed(k) + speed(k + 1))
+            };
+            circulation += q_mean * p.len[k];
         }
         let (s, c) = alpha_deg.to_radians().sin_cos();
         let chord = self.chord;
@@ -222,7 +245,7 @@ impl PanelSolver {
             cl_circulation: 2.0 * circulation / chord,
             cp_min,
             critical_mach_reached: critical,
-            gamma,
+            gamma: node_speed,
             cp,
         }
     }
@@ -287,6 +310,12 @@ fn assemble(panels: &Panels) -> (DenseMatrix, Vec<f64>, Vec<f64>) {
     matrix.set(n - 1, 0, 1.0);
     matrix.set(n - 1, n - 1, 1.0);
     (matrix, rhs_0, rhs_90)
+}
+
+/// cos α·a + sin α·b.
+fn superpose(alpha_deg: f64, a: &[f64], b: &[f64]) -> Vec<f64> {
+    let (s, c) = alpha_deg.to_radians().sin_cos();
+    a.iter().zip(b).map(|(x, y)| c * x + s * y).collect()
 }
 
 /// Chord (trailing-edge midpoint to the farthest node) and the quarter-chord point.

@@ -13,7 +13,7 @@
 //!   node carries the merged mass defect of both sides at the trailing edge.
 //!
 //! **Edge velocities.** On the surface the signed speed γᵢ (γ > 0 towards the upper trailing
-//! edge); along the wake the speed uₑ = V·t̂ along the wake direction. Wake speeds are evaluated
+//! edge, trailing-edge nodes extrapolated as in `PanelSolver::surface_speed`); along the wake the speed uₑ = V·t̂ along the wake direction. Wake speeds are evaluated
 //! at the wake panel midpoints, where the source sheets are regular, and interpolated linearly
 //! in s to the nodes (extrapolated at the two ends).
 //!
@@ -246,17 +246,16 @@ impl PanelSolver {
             })
             .collect();
         self.lu.solve_in_place(&mut rhs);
-        let gamma = rhs;
+        let sheet = rhs;
         let (vortex, source) = self.wake_tangential_rows(&data);
         let free = self.wake_free_stream(&data, alpha_deg);
-        let induced_v = vortex.matvec(&gamma);
+        let induced_v = vortex.matvec(&sheet);
         let induced_s = source.matvec(&sigma);
         let mids: Vec<f64> = (0..nw)
             .map(|k| free[k] + induced_v[k] + induced_s[k])
             .collect();
-        let cp = gamma.iter().map(|g| 1.0 - g * g).collect();
         Ok(TranspirationSolution {
-            solution: self.solution_from(alpha_deg, 0.0, gamma, cp),
+            solution: self.solution_from(alpha_deg, 0.0, self.surface_speed(sheet)),
             wake_velocity: data.interpolate(&mids),
         })
     }
@@ -344,9 +343,20 @@ impl PanelSolver {
                 }
             }
         }
+        // Surface rows: the node speeds, with the same trailing-edge extrapolation.
         let mut d = DenseMatrix::zeros(total, total);
         for i in 0..n {
             d.row_mut(i).copy_from_slice(d_gamma.row(i));
+        }
+        let l = &self.panels.len;
+        for j in 0..total {
+            let g = |i: usize| d_gamma.get(i, j);
+            d.set(0, j, g(1) + (g(1) - g(2)) * l[0] / l[1]);
+            d.set(
+                n - 1,
+                j,
+                g(n - 2) + (g(n - 2) - g(n - 3)) * l[n - 2] / l[n - 3],
+            );
         }
         for (k, &(a, wa, b, wb)) in data.to_nodes.iter().enumerate() {
             if nw == 0 {

@@ -89,7 +89,7 @@ impl PanelSolver {
         let p = &self.panels;
         let first = 0.5 * (p.len[0] + p.len[p.count() - 1]);
         let ds = geometric_spacing(first, length, nodes - 1);
-        let gamma = self.gamma_at(alpha_deg);
+        let gamma = self.sheet_at(alpha_deg);
         let (te, mut dir) = self.trailing_edge_bisector();
         let mut scratch = Scratch::default();
         let (mut x, mut y, mut s) = (vec![te.0], vec![te.1], vec![0.0]);
