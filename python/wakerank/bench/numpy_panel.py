@@ -3,7 +3,8 @@
 The same equations as the compiled core (Katz & Plotkin, *Low-Speed Aerodynamics*, §11.4):
 nodes from the upper trailing edge round counter-clockwise, a clockwise-positive vortex sheet
 varying linearly between node strengths γ, zero normal velocity at the panel midpoints, the
-Kutta condition γ₀ + γ_{N−1} = 0, two base solutions (α = 0°, 90°) superposed for every angle.
+Kutta condition γ₀ + γ_{N−1} = 0, two base solutions (α = 0°, 90°) superposed for every angle,
+surface speed = sheet strength with the two trailing-edge nodes extrapolated from their neighbours.
 Written independently of the Rust code, so a test comparing the two checks both.
 """
 
@@ -64,20 +65,32 @@ def solve(x: np.ndarray, y: np.ndarray, alphas_deg: np.ndarray) -> dict[str, np.
     rhs[:-1, 1] = tx  # −n_y
     base = np.linalg.solve(matrix, rhs)
     a = np.radians(alphas)
-    gamma = np.cos(a)[:, None] * base[:, 0] + np.sin(a)[:, None] * base[:, 1]
+    sheet = np.cos(a)[:, None] * base[:, 0] + np.sin(a)[:, None] * base[:, 1]
+    # Surface speed = sheet strength (interior at rest), except the two trailing-edge nodes,
+    # which are ill-determined and extrapolated linearly in arc length from their neighbours.
+    gamma = sheet.copy()
+    gamma[:, 0] = sheet[:, 1] + (sheet[:, 1] - sheet[:, 2]) * length[0] / length[1]
+    gamma[:, -1] = sheet[:, -2] + (sheet[:, -2] - sheet[:, -3]) * length[-1] / length[-2]
     cp = 1.0 - gamma**2
     cp_mean = 0.5 * (cp[:, :-1] + cp[:, 1:])
     fx = np.sum(-cp_mean * ty * length, axis=1)
     fy = np.sum(cp_mean * tx * length, axis=1)
+    # The base of a blunt trailing edge carries the mean trailing-edge Cp (closed contour).
+    cp_base = 0.5 * (cp[:, 0] + cp[:, -1])
+    base_x, base_y = x[0] - x[-1], y[0] - y[-1]
+    fx = fx - cp_base * base_y
+    fy = fy + cp_base * base_x
     te = np.array([0.5 * (x[0] + x[-1]), 0.5 * (y[0] + y[-1])])
     dist = np.hypot(x - te[0], y - te[1])
     k = int(np.argmax(dist))
     chord = dist[k]
     ref = np.array([x[k], y[k]]) + 0.25 * (te - np.array([x[k], y[k]]))
     moment = np.sum((mx - ref[0]) * (cp_mean * tx * length) - (my - ref[1]) * (-cp_mean * ty * length), axis=1)
+    moment += (te[0] - ref[0]) * (cp_base * base_x) - (te[1] - ref[1]) * (-cp_base * base_y)
     circulation = np.sum(0.5 * (gamma[:, :-1] + gamma[:, 1:]) * length, axis=1)
     return {
         "alpha_deg": alphas,
+        "sheet": sheet,
         "gamma": gamma,
         "cp": cp,
         "cl": (fy * np.cos(a) - fx * np.sin(a)) / chord,

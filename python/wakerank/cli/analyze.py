@@ -47,22 +47,29 @@ def load_section(spec: str) -> Any:
     return Section.from_spec(spec)
 
 
+OUTPUT_SUFFIXES = (".parquet", ".csv")
+
+
+def check_output(out: Optional[Path]) -> None:
+    """Fail before any work when --out has a suffix we cannot write."""
+    if out is not None and out.suffix.lower() not in OUTPUT_SUFFIXES:
+        raise wr.InputError(f"--out {out}: the file must end in .parquet or .csv")
+
+
 def write_table(table: pl.DataFrame, out: Path) -> None:
     """Write the table as Parquet (.parquet) or CSV (.csv)."""
-    suffix = out.suffix.lower()
-    if suffix == ".parquet":
+    check_output(out)
+    if out.suffix.lower() == ".parquet":
         table.write_parquet(out)
-    elif suffix == ".csv":
-        table.write_csv(out)
     else:
-        raise wr.InputError(f"--out {out}: the file must end in .parquet or .csv")
+        table.write_csv(out)
 
 
 def print_table(table: pl.DataFrame, title: str) -> None:
     """Print the polar with rich: numbers to 4 decimals, flags as yes/no."""
     view = Table(title=title)
     for name in table.columns:
-        view.add_column(name, justify="right")
+        view.add_column(name, justify="right", overflow="fold")
     for row in table.iter_rows():
         cells = []
         for value in row:
@@ -78,6 +85,7 @@ def print_table(table: pl.DataFrame, title: str) -> None:
 
 def run_analyze(spec: str, alpha: str, options: AnalyzeOptions, out: Optional[Path]) -> None:
     """The command body: load, analyse, print, optionally write."""
+    check_output(out)
     section = load_section(spec)
     table = wr.analyze(section, alpha_deg=alpha, **options.as_kwargs())
     kind = "viscous" if options.viscous else "inviscid"

@@ -158,6 +158,9 @@ pub fn inviscid_surface_arrays<'py>(
     Ok(d)
 }
 
+/// (name, x, y, exact Cp, exact cl) handed to Python.
+type ExactSolution = (String, Py<PyAny>, Py<PyAny>, Py<PyAny>, f64);
+
 /// Kármán–Trefftz section points and its exact solution at `alpha_deg`: (name, x, y, cp, cl).
 #[pyfunction]
 pub fn karman_trefftz_exact<'py>(
@@ -167,7 +170,7 @@ pub fn karman_trefftz_exact<'py>(
     trailing_edge_angle_deg: f64,
     n_points: usize,
     alpha_deg: f64,
-) -> PyResult<(String, Py<PyAny>, Py<PyAny>, Py<PyAny>, f64)> {
+) -> PyResult<ExactSolution> {
     let kt = KarmanTrefftz {
         center_x,
         center_y,

@@ -6,9 +6,10 @@
 //! thread count, and each case's arithmetic does not depend on it.
 
 use crate::error::{Result, SolverError};
+use crate::geometry::paneling::repanel;
 use crate::geometry::Section;
 use crate::inviscid::compressibility::{speed_ratio_from_cp, validate_mach};
-use crate::inviscid::{InviscidSolution, PanelSolver, MIN_POINTS};
+use crate::inviscid::{InviscidSolution, PanelSolver};
 use rayon::prelude::*;
 
 /// Build the local thread pool: explicit count, else `RAYON_NUM_THREADS`, else all cores.
@@ -29,15 +30,10 @@ pub fn thread_pool(threads: Option<usize>) -> Result<rayon::ThreadPool> {
 /// as given when `panels` is 0.
 pub fn paneled(section: &Section, panels: usize) -> Result<Section> {
     if panels == 0 {
-        return Ok(section.clone());
+        Ok(section.clone())
+    } else {
+        repanel(section, panels)
     }
-    if panels < MIN_POINTS - 1 {
-        return Err(SolverError::input(format!(
-            "panels must be at least {}, got {panels}",
-            MIN_POINTS - 1
-        )));
-    }
-    Ok(section.clone())
 }
 
 /// Surface distribution of one inviscid solution, station by station (panel nodes).

@@ -22,7 +22,8 @@
 //!
 //! Blunt trailing edge: when the first and last nodes do not coincide, the base between them is
 //! left open (no panel) and the same Kutta condition makes the flow leave both corners at equal
-//! speed. The gap lets a little fluid into the interior, an error of the order of the base
+//! speed. For the forces the base carries the mean trailing-edge Cp (dead air at the corner
+//! pressure), so the pressure is integrated over a closed contour. The gap lets a little fluid into the interior, an error of the order of the base
 //! height over the chord; sections with a base larger than the geometry module's limit are
 //! rejected before they get here.
 //!
@@ -232,6 +233,16 @@ impl PanelSolver {
             };
             circulation += q_mean * p.len[k];
         }
+        // Blunt trailing edge: the base (last node → first node) carries the trailing-edge
+        // pressure, so that the pressure integral is taken over a closed contour.
+        let n = p.nodes();
+        let (bx, by) = (p.x[0] - p.x[n - 1], p.y[0] - p.y[n - 1]);
+        let cp_base = 0.5 * (cp[0] + cp[n - 1]);
+        let (dfx, dfy) = (-cp_base * by, cp_base * bx);
+        fx += dfx;
+        fy += dfy;
+        let (mx, my) = (0.5 * (p.x[0] + p.x[n - 1]), 0.5 * (p.y[0] + p.y[n - 1]));
+        moment += (mx - xr) * dfy - (my - yr) * dfx;
         let (s, c) = alpha_deg.to_radians().sin_cos();
         let chord = self.chord;
         let cp_min = cp.iter().cloned().fold(f64::INFINITY, f64::min);

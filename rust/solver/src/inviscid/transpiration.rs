@@ -5,6 +5,14 @@
 //! ξ the boundary-layer arc length running from the stagnation point towards each trailing
 //! edge and along the wake. Each surface panel and each wake panel carries a uniform σ.
 //!
+//! **Trailing-edge nodes.** The inviscid speed of the two trailing-edge nodes is extrapolated
+//! from their neighbours (`PanelSolver::surface_speed`: the free-stream solution there is
+//! ill-determined); the *change* caused by transpiration is taken from the re-solved sheet
+//! strength itself, which keeps the response local and physical (D_ii > 0 at the trailing
+//! edge as everywhere else). The speed with transpiration is therefore
+//! q = q_inviscid + Δ(sheet), an affine map, and `edge_velocity + D·m` reproduces
+//! `solve_with_transpiration` exactly.
+//!
 //! **Mass-defect unknowns.** There is one m per surface node, then one per wake node:
 //! - on the surface m is *signed like γ*: mᵢ = γᵢ·δ*ᵢ (so mᵢ = uₑδ* on the upper side, where
 //!   γ > 0, and −uₑδ* on the lower side). Then σ on surface panel k (nodes k, k+1) is
@@ -13,7 +21,7 @@
 //!   node carries the merged mass defect of both sides at the trailing edge.
 //!
 //! **Edge velocities.** On the surface the signed speed γᵢ (γ > 0 towards the upper trailing
-//! edge, trailing-edge nodes extrapolated as in `PanelSolver::surface_speed`); along the wake the speed uₑ = V·t̂ along the wake direction. Wake speeds are evaluated
+//! edge); along the wake the speed uₑ = V·t̂ along the wake direction. Wake speeds are evaluated
 //! at the wake panel midpoints, where the source sheets are regular, and interpolated linearly
 //! in s to the nodes (extrapolated at the two ends).
 //!
@@ -81,6 +89,18 @@ impl WakeData {
 }
 
 impl PanelSolver {
+    /// Surface speeds with transpiration: the inviscid speeds at `alpha_deg` (trailing-edge
+    /// nodes extrapolated) plus the change of the sheet strengths that the sources cause.
+    fn transpired_speed(&self, alpha_deg: f64, sheet: &[f64]) -> Vec<f64> {
+        let inviscid_sheet = self.sheet_at(alpha_deg);
+        let inviscid = self.surface_speed(inviscid_sheet.clone());
+        inviscid
+            .iter()
+            .zip(sheet.iter().zip(&inviscid_sheet))
+            .map(|(q, (total, base))| q + (total - base))
+            .collect()
+    }
+
     /// Normal velocity at each surface collocation point per unit σ on every surface panel and
     /// then every wake panel (rows: N; the Kutta row is zero). The self term is the one-sided
     /// value −σ/2 on the fluid-free inner side, which keeps the interior at rest.
@@ -255,7 +275,7 @@ impl PanelSolver {
             .map(|k| free[k] + induced_v[k] + induced_s[k])
             .collect();
         Ok(TranspirationSolution {
-            solution: self.solution_from(alpha_deg, 0.0, self.surface_speed(sheet)),
+            solution: self.solution_from(alpha_deg, 0.0, self.transpired_speed(alpha_deg, &sheet)),
             wake_velocity: data.interpolate(&mids),
         })
     }
@@ -343,21 +363,49 @@ impl PanelSolver {
                 }
             }
         }
-        // Surface rows: the node speeds, with the same trailing-edge extrapolation.
+        // Surface rows: the sheet-strength response (no trailing-edge extrapolation, see the
+        // module documentation).
         let mut d = DenseMatrix::zeros(total, total);
         for i in 0..n {
             d.row_mut(i).copy_from_slice(d_gamma.row(i));
         }
-        let l = &self.panels.len;
-        for j in 0..total {
-            let g = |i: usize| d_gamma.get(i, j);
-            d.set(0, j, g(1) + (g(1) - g(2)) * l[0] / l[1]);
-            d.set(
-                n - 1,
-                j,
-                g(n - 2) + (g(n - 2) - g(n - 3)) * l[n - 2] / l[n - 3],
-            );
+        // Wake rows at the midpoints: vortex part through dγ/dm plus the direct source part.
+        let (vortex, source) = self.wake_tangential_rows(&data);
+        let mut d_mid = DenseMatrix::zeros(nw, total);
+        for k in 0..nw {
+            let vrow = vortex.row(k);
+            let out = d_mid.row_mut(k);
+            for i in 0..n {
+                let a = vrow[i];
+                if a != 0.0 {
+                    for (o, g) in out.iter_mut().zip(d_gamma.row(i)) {
+                        *o += a * g;
+                    }
+                }
+            }
+            for (j, o) in out.iter_mut().enumerate() {
+                for (p, w) in column(j) {
+                    if w != 0.0 {
+                        *o += source.get(k, p) * w;
+                    }
+                }
+            }
         }
+        // Surface rows: the sheet-strength response (no trailing-edge extrapolation, see the
+        // module documentation).
+        let mut d = DenseMatrix::zeros(total, total);
+        for i in 0..n {
+            d.row_mut(i).copy_from_slice(d_gamma.row(i));
+        }
+        eprintln!(
+            "RAW te diag {} {} ; node1 {} node2 {} ; d(1,0) {} d(2,0) {}",
+            d_gamma.get(0, 0),
+            d_gamma.get(n - 1, n - 1),
+            d_gamma.get(1, 1),
+            d_gamma.get(2, 2),
+            d_gamma.get(1, 0),
+            d_gamma.get(2, 0)
+        );
         for (k, &(a, wa, b, wb)) in data.to_nodes.iter().enumerate() {
             if nw == 0 {
                 break;

@@ -1,0 +1,64 @@
+"""`wakerank analyze`: tables, output files, and one-line errors with exit code 2."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import polars as pl
+from typer.testing import CliRunner
+
+from wakerank.cli import app
+
+runner = CliRunner()
+
+
+def test_analyze_prints_a_table() -> None:
+    result = runner.invoke(app, ["analyze", "2412", "--alpha", "0:4:2"])
+    assert result.exit_code == 0, result.output
+    assert "NACA 2412" in result.output.upper() and "0.0000" in result.output
+
+
+def test_analyze_writes_parquet_and_csv(tmp_path: Path) -> None:
+    for name in ["polar.parquet", "polar.csv"]:
+        out = tmp_path / name
+        result = runner.invoke(app, ["analyze", "0012", "--alpha", "-2:2:2", "--panels", "120", "--out", str(out)])
+        assert result.exit_code == 0, result.output
+        table = pl.read_parquet(out) if out.suffix == ".parquet" else pl.read_csv(out)
+        assert table.height == 3 and "cm_c4" in table.columns
+
+
+def test_analyze_reads_a_coordinate_file(tmp_path: Path) -> None:
+    import wakerank as wr
+
+    section = wr.Section.naca("4412")
+    path = tmp_path / "mine.dat"
+    path.write_text("my section\n" + "\n".join(f"{a:.6f} {b:.6f}" for a, b in zip(section.x, section.y)))
+    result = runner.invoke(app, ["analyze", str(path), "--alpha", "2"])
+    assert result.exit_code == 0, result.output
+    assert "my section" in result.output
+
+
+def _one_line_error(args: list[str], needle: str) -> None:
+    result = runner.invoke(app, args)
+    assert result.exit_code == 2, result.output
+    lines = [line for line in result.output.splitlines() if line.strip()]
+    assert len(lines) == 1 and lines[0].startswith("error:") and needle in lines[0], result.output
+    assert "Traceback" not in result.output
+
+
+def test_bad_mach_is_one_line() -> None:
+    _one_line_error(["analyze", "0012", "--mach", "0.95"], "mach")
+
+
+def test_bad_alpha_is_one_line() -> None:
+    _one_line_error(["analyze", "0012", "--alpha", "4:0:1"], "alpha_deg")
+
+
+def test_bad_output_suffix_is_one_line(tmp_path: Path) -> None:
+    _one_line_error(["analyze", "0012", "--alpha", "0", "--out", str(tmp_path / "x.txt")], "--out")
+
+
+def test_unknown_section_is_one_line() -> None:
+    result = runner.invoke(app, ["analyze", "not-a-section"])
+    assert result.exit_code == 2 and "Traceback" not in result.output
+    assert result.output.strip().startswith("error:")
