@@ -20,7 +20,7 @@ from pathlib import Path
 
 import numpy as np
 
-from wakerank.errors import InputError
+from wakerank.errors import GeometryError, InputError
 
 #: The far field must be at least this many chords from the section.
 MIN_FARFIELD_RADIUS = 50.0
@@ -101,12 +101,20 @@ def build_mesh(
     sharp = math.hypot(x[-1] - x[0], y[-1] - y[0]) < 1e-12
     if sharp:
         x, y = x[:-1], y[:-1]
+    segments = np.hypot(np.diff(x), np.diff(y))
+    if np.any(segments < 1e-12):
+        first = int(np.argmax(segments < 1e-12))
+        raise GeometryError(f"{name}: points {first} and {first + 1} coincide; the wall needs distinct points")
     gmsh = _import_gmsh()
     gmsh.initialize(readConfigFiles=False, interruptible=False)
     try:
         gmsh.option.setNumber("General.Terminal", 0)
         gmsh.model.add(name)
         summary = _mesh_into_model(gmsh, x, y, sharp, settings, Path(out_stem))
+    except OSError:
+        raise
+    except Exception as exc:  # gmsh reports every failure as a plain Exception
+        raise GeometryError(f"{name}: gmsh could not mesh the section: {exc}") from None
     finally:
         gmsh.finalize()
     return summary

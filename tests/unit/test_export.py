@@ -169,3 +169,14 @@ def test_points_option_repanels_the_coordinates(tmp_path):
     assert coords.shape == (121, 2) and coords[0].tolist() == coords[-1].tolist()
     with pytest.raises(InputError, match="--points"):
         export_shortlist(shortlist, sections, tmp_path, ExportOptions(points=8))
+
+
+def test_coincident_wall_points_are_one_geometry_error(tmp_path):
+    from wakerank.errors import GeometryError
+    from wakerank.mesh import MeshSettings, build_mesh
+
+    x, y = naca_symmetric(per_side=21)
+    x[5], y[5] = x[4], y[4]  # a zero-length wall segment (gmsh would not finish on it)
+    settings = MeshSettings(first_cell_height=1e-5, layer_thickness=0.02)
+    with pytest.raises(GeometryError, match="points 4 and 5 coincide"):
+        build_mesh(x, y, settings, tmp_path / "bad")
