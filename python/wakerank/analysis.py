@@ -143,10 +143,11 @@ def _analyze_inviscid(
 
 
 def polar_frame(columns: dict[str, Any]) -> pl.DataFrame:
-    """The inviscid polar table from the core's dict of columns."""
-    data = {key: columns[key] for key in INVISCID_COLUMNS if key != "panels"}
-    data["panels"] = np.full(len(columns["alpha_deg"]), int(columns["panels"]), dtype=np.int64)
-    return pl.DataFrame(data).select(INVISCID_COLUMNS)
+    """The inviscid polar table from the core's dict of columns (columns in table order)."""
+    height = len(columns["alpha_deg"])
+    data = {key: columns[key] for key in INVISCID_COLUMNS[:-1]}
+    data["panels"] = np.full(height, int(columns["panels"]), dtype=np.int64)
+    return pl.DataFrame(data)
 
 
 def _analyze_viscous(

@@ -2,17 +2,21 @@
 
 Measured at 160 panels with 15 angles per section, on Kármán–Trefftz sections (built by the
 core, so the figure does not depend on other families): through the parallel batch entry
-(one thread, then all), through the per-call Python API, and for the plain NumPy
-implementation of the same method (:mod:`wakerank.bench.numpy_panel`) in the same process.
+(one thread, then all), through the per-call binding and the Python API, and for the plain
+NumPy implementation of the same method (:mod:`wakerank.bench.numpy_panel`) in the same
+process, with its BLAS limited to one thread so that both figures are per core.
 """
 
 from __future__ import annotations
 
+import contextlib
+import ctypes
 import os
 import platform
+import re
 import time
 from dataclasses import dataclass
-from typing import Callable
+from typing import Callable, Iterator
 
 import numpy as np
 
@@ -35,21 +39,28 @@ class InviscidBenchmark:
     batch_one_thread: float
     batch_all_threads: float
     threads: int
+    binding_per_call: float
     python_per_call: float
     numpy: float
-    per_call_overhead_us: float
+    numpy_blas_threads: str
+    binding_overhead_us: float
+    python_overhead_us: float
     machine: str
+    load_average: str
 
     def lines(self) -> list[str]:
         return [
-            f"machine: {self.machine}",
+            f"machine: {self.machine}; load average {self.load_average}",
             f"{self.sections} sections x {self.angles} angles at {self.panels} panels",
-            f"batch, 1 thread          : {self.batch_one_thread:10.0f} cases/s",
-            f"batch, {self.threads} threads         : {self.batch_all_threads:10.0f} cases/s",
-            f"Python API, per section  : {self.python_per_call:10.0f} cases/s",
-            f"NumPy yardstick          : {self.numpy:10.0f} cases/s",
-            f"batch 1 thread / NumPy   : {self.batch_one_thread / self.numpy:10.1f} x",
-            f"per-call overhead        : {self.per_call_overhead_us:10.1f} us",
+            "per core (process CPU time, best of the repeats):",
+            f"batch, 1 thread             : {self.batch_one_thread:10.0f} cases/s",
+            f"binding, one call a section : {self.binding_per_call:10.0f} cases/s",
+            f"wr.analyze, one call a section: {self.python_per_call:8.0f} cases/s",
+            f"NumPy yardstick (BLAS {self.numpy_blas_threads}) : {self.numpy:10.0f} cases/s",
+            f"batch 1 thread / NumPy      : {self.batch_one_thread / self.numpy:10.1f} x",
+            f"per-call overhead, binding  : {self.binding_overhead_us:10.1f} us",
+            f"per-call overhead, wr.analyze (polars table): {self.python_overhead_us:.1f} us",
+            f"wall clock, batch on {self.threads} threads: {self.batch_all_threads:.0f} cases/s",
         ]
 
 
@@ -81,13 +92,52 @@ def sample_sections(count: int) -> list[KarmanTrefftzSection]:
     ]
 
 
-def _best_of(repeat: int, work: Callable[[], object]) -> float:
+@contextlib.contextmanager
+def single_threaded_blas() -> Iterator[str]:
+    """Limit NumPy's OpenBLAS to one thread for the duration (as threadpoolctl does), so the
+    yardstick is a per-core figure; yields the thread count in force ("1" or "default")."""
+    setter = getter = None
+    try:
+        with open("/proc/self/maps", encoding="utf-8") as handle:
+            libraries = sorted(set(re.findall(r"(/\S*openblas\S*\.so\S*)", handle.read())))
+        for path in libraries:
+            lib = ctypes.CDLL(path)
+            for prefix in ("scipy_openblas", "openblas"):
+                for suffix in ("64_", ""):
+                    if hasattr(lib, f"{prefix}_set_num_threads{suffix}"):
+                        setter = getattr(lib, f"{prefix}_set_num_threads{suffix}")
+                        getter = getattr(lib, f"{prefix}_get_num_threads{suffix}")
+                        break
+                if setter:
+                    break
+            if setter:
+                break
+    except OSError:
+        setter = None
+    if setter is None or getter is None:
+        yield "default"
+        return
+    before = int(getter())
+    setter(1)
+    try:
+        yield "1 thread"
+    finally:
+        setter(before)
+
+
+def _best_of(repeat: int, work: Callable[[], object], clock: Callable[[], float]) -> float:
     best = float("inf")
     for _ in range(repeat):
-        start = time.perf_counter()
+        start = clock()
         work()
-        best = min(best, time.perf_counter() - start)
+        best = min(best, clock() - start)
     return best
+
+
+def _cpu_seconds(repeat: int, work: Callable[[], object]) -> float:
+    """Best process CPU time of `work`: a per-core figure that a busy machine distorts less
+    than wall time (single-threaded work only)."""
+    return _best_of(repeat, work, time.process_time)
 
 
 def run(sections: int = 64, repeat: int = 3) -> InviscidBenchmark:
@@ -100,6 +150,10 @@ def run(sections: int = 64, repeat: int = 3) -> InviscidBenchmark:
     def batch(n_threads: int | None) -> None:
         _core.inviscid_polar_batch(batch_input, ANGLES, 0, 0.0, n_threads)
 
+    def binding() -> None:
+        for s in shapes:
+            _core.inviscid_polar(s.x, s.y, ANGLES, 0, 0.0, s.name)
+
     def python_api() -> None:
         for s in shapes:
             wr.analyze(s, ANGLES, panels=None)
@@ -108,10 +162,12 @@ def run(sections: int = 64, repeat: int = 3) -> InviscidBenchmark:
         for s in shapes:
             numpy_panel.solve(s.x, s.y, ANGLES)
 
-    t_one = _best_of(repeat, lambda: batch(1))
-    t_all = _best_of(repeat, lambda: batch(None))
-    t_api = _best_of(repeat, python_api)
-    t_numpy = _best_of(max(1, repeat - 1), numpy_yardstick)
+    t_one = _cpu_seconds(repeat, lambda: batch(1))
+    t_all = _best_of(repeat, lambda: batch(None), time.perf_counter)
+    t_binding = _cpu_seconds(repeat, binding)
+    t_api = _cpu_seconds(repeat, python_api)
+    with single_threaded_blas() as blas_threads:
+        t_numpy = _cpu_seconds(max(1, repeat - 1), numpy_yardstick)
     return InviscidBenchmark(
         sections=sections,
         angles=ANGLES.size,
@@ -119,8 +175,12 @@ def run(sections: int = 64, repeat: int = 3) -> InviscidBenchmark:
         batch_one_thread=cases / t_one,
         batch_all_threads=cases / t_all,
         threads=threads,
+        binding_per_call=cases / t_binding,
         python_per_call=cases / t_api,
         numpy=cases / t_numpy,
-        per_call_overhead_us=max(0.0, (t_api - t_one) / sections) * 1e6,
+        numpy_blas_threads=blas_threads,
+        binding_overhead_us=max(0.0, (t_binding - t_one) / sections) * 1e6,
+        python_overhead_us=max(0.0, (t_api - t_one) / sections) * 1e6,
         machine=machine_description(),
+        load_average=" ".join(f"{v:.1f}" for v in os.getloadavg()),
     )
