@@ -167,3 +167,24 @@ def test_cli_section_prints_properties_and_draws(tmp_path) -> None:  # type: ign
     assert result.returncode == 0, result.stderr
     assert "NACA 23012" in result.stdout and "thickness t/c" in result.stdout and "0.12" in result.stdout
     assert out.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+def test_from_file_normalises_a_scaled_rotated_file(tmp_path) -> None:  # type: ignore[no-untyped-def]
+    s = wr.Section.naca("2412", points=60)
+    angle = np.radians(7.0)
+    x = 250.0 * (np.cos(angle) * s.x - np.sin(angle) * s.y) + 40.0
+    y = 250.0 * (np.sin(angle) * s.x + np.cos(angle) * s.y) - 3.0
+    path = tmp_path / "mm.dat"
+    path.write_text("\n".join(f"{a:.9f},{b:.9f}" for a, b in zip(x, y)) + "\n")
+    raw = wr.Section.from_file(path, normalise=False)
+    assert raw.chord == pytest.approx(250.0, rel=1e-6)
+    unit = wr.Section.from_file(path)
+    assert unit.chord == pytest.approx(1.0, abs=1e-12)
+    assert unit.thickness == pytest.approx(s.thickness, abs=2e-4)
+
+
+def test_constructor_checks_the_ordering() -> None:
+    s = wr.Section.naca("0012", points=30)
+    assert len(wr.Section(s.x, s.y, "ok")) == len(s)
+    with pytest.raises(wr.GeometryError, match="clockwise"):
+        wr.Section(s.x[::-1], s.y[::-1], "backwards")
