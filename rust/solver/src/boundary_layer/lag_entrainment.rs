@@ -12,7 +12,7 @@
 use super::station::LayerState;
 
 /// Bounds of the turbulent shape factor in the local Newton iteration.
-pub(crate) const TURBULENT_SHAPE_FACTOR_RANGE: (f64, f64) = (1.02, 6.0);
+pub(crate) const TURBULENT_SHAPE_FACTOR_RANGE: (f64, f64) = (1.02, 12.0);
 /// Bounds of the wake shape factor (the wake relaxes towards H = 1).
 pub(crate) const WAKE_SHAPE_FACTOR_RANGE: (f64, f64) = (1.0005, 6.0);
 /// Bounds of the entrainment coefficient (keeps F's denominator 0.01 + CE positive).
