@@ -10,8 +10,9 @@ For each Falkner–Skan profile (scripts/falkner_skan_closures.py) this script
    by Chebyshev collocation on the mapped domain y = a(1+ξ)/(b−ξ), with φ = (1 − ξ²) ψ so that
    the clamped conditions hold exactly and no spurious modes appear (Trefethen, *Spectral Methods
    in MATLAB*, ch. 14); scipy.linalg.eigvals of the generalised problem; the least stable mode;
-2. turns temporal into spatial rates by Gaster's transformation (Gaster 1962):
-   −α_i = ω_i / (∂ω_r/∂α) at real α;
+2. turns temporal into spatial waves: for each real frequency the complex wavenumber α is solved
+   for directly (a first step with the complex group velocity, Gaster 1962, then secant
+   iterations on ω(α) = ω_r), giving the spatial rate −α_i;
 3. finds the critical Reynolds number Reθ,0(H), the lowest R with a growing wave;
 4. integrates N = ∫ −α_i dx along waves of fixed physical frequency of the similar flow
    (ue ∝ x^m: ωθ/ue = F·Reθ^p, p = (1 − 3m)/(1 + m); dReθ/dx = T²/θ with T² = θ dReθ/dx from
@@ -104,19 +105,28 @@ class OrrSommerfeld:
         self._cache[y_max] = ops
         return ops
 
-    def least_stable(self, alpha: float, re_theta: float) -> complex:
-        """Temporal eigenvalue ω = αc of the least stable wave with 0 < c_r < 0.95 (the upper bound
-        keeps out the continuous spectrum, c_r ≈ 1, of the free stream)."""
-        y_max = float(np.clip(np.round(10.0 / alpha, 0), 50.0, 600.0))
+    def eigenvalues(self, alpha: complex, re_theta: float) -> np.ndarray:
+        """All finite temporal eigenvalues ω at (possibly complex) wavenumber α."""
+        y_max = float(np.clip(np.round(10.0 / abs(alpha.real), 0), 50.0, 600.0))
         p0, y2, y4, u, upp = self._operators(y_max)
         lap = y2 - alpha**2 * p0
         a = (alpha * (u[:, None] * lap - upp[:, None] * p0)
              - (y4 - 2 * alpha**2 * y2 + alpha**4 * p0) / (1j * re_theta))
         w = sl.eigvals(a, lap, check_finite=False)
-        w = w[np.isfinite(w)]
+        return w[np.isfinite(w)]
+
+    def least_stable(self, alpha: float, re_theta: float) -> complex:
+        """Temporal eigenvalue ω = αc of the least stable wave with 0 < c_r < 0.95 (the upper bound
+        keeps out the continuous spectrum, c_r ≈ 1, of the free stream)."""
+        w = self.eigenvalues(complex(alpha), re_theta)
         c = w.real / alpha
         w = w[(c > 0.0) & (c < 0.95)]
         return complex(w[np.argmax(w.imag)]) if w.size else complex(0.0, -1.0)
+
+    def nearest(self, alpha: complex, re_theta: float, guess: complex) -> complex:
+        """The eigenvalue ω nearest to `guess` (follows one mode as α moves into the complex plane)."""
+        w = self.eigenvalues(alpha, re_theta)
+        return complex(w[np.argmin(np.abs(w - guess))])
 
 
 def _profile_functions(profile: fs.Profile):
@@ -207,11 +217,37 @@ ALPHA_FLOOR = 0.02
 GROUP_VELOCITY_FLOOR = 0.05
 
 
-def spatial_rates(os_: OrrSommerfeld, re_theta: float, alpha_peak: float, samples: int = 18):
-    """Unstable band at Reθ: ω_r and −α_i (Gaster 1962: −α_i = ω_i/(∂ω_r/∂α)) across the band.
+def spatial_wavenumber(os_: OrrSommerfeld, re_theta: float, alpha_r: float, omega: complex,
+                       slope: complex) -> complex | None:
+    """Complex α with real frequency ω_r = Re ω(α_r) on the mode through (α_r, ω).
 
-    Points where the group velocity falls below GROUP_VELOCITY_FLOOR (the transformation breaks
-    down there, as the spatial branches approach a pinch point) contribute no growth.
+    The first step uses the complex group velocity dω/dα (the analytic derivative, taken along the
+    real axis), which is Gaster's (1962) estimate; secant iterations then solve ω(α) = ω_r
+    exactly. Returns None if the iteration does not settle.
+    """
+    target = omega.real
+    a0, f0 = complex(alpha_r), omega - target
+    a1 = a0 - f0 / slope
+    for _ in range(8):
+        w1 = os_.nearest(a1, re_theta, omega + slope * (a1 - alpha_r))
+        f1 = w1 - target
+        if abs(f1) < 1e-10 * max(1.0, abs(target)):
+            return a1
+        if f1 == f0:
+            return None
+        a0, a1, f0 = a1, a1 - f1 * (a1 - a0) / (f1 - f0), f1
+        if abs(a1 - alpha_r) > 0.5 * alpha_r:
+            return None
+    return None
+
+
+def spatial_rates(os_: OrrSommerfeld, re_theta: float, alpha_peak: float, samples: int = 18):
+    """Unstable band at Reθ: real frequencies ω_r and spatial rates −α_i across the band.
+
+    The spatial wavenumber of each wave is solved for directly (`spatial_wavenumber`). Where the
+    group velocity falls below GROUP_VELOCITY_FLOOR (the spatial branches approach a pinch point
+    and a convective growth rate loses its meaning) or the iteration fails, the wave contributes
+    no growth.
     """
     lo, hi = alpha_peak, alpha_peak
     while lo > ALPHA_FLOOR and os_.least_stable(lo, re_theta).imag > 0.0:
@@ -226,10 +262,14 @@ def spatial_rates(os_: OrrSommerfeld, re_theta: float, alpha_peak: float, sample
     s = 0.5 * (1.0 - np.cos(np.pi * np.arange(samples) / (samples - 1)))
     alphas = np.exp(np.log(lo) + s * (np.log(hi) - np.log(lo)))
     w = np.array([os_.least_stable(a, re_theta) for a in alphas])
-    group_velocity = np.gradient(w.real, alphas)
-    usable = group_velocity > GROUP_VELOCITY_FLOOR
-    rate = np.where(usable, np.maximum(w.imag, 0.0) / np.where(usable, group_velocity, 1.0), 0.0)
-    rate[[0, -1]] = 0.0
+    slope = np.gradient(w, alphas)
+    rate = np.zeros(samples)
+    for i in range(1, samples - 1):
+        if w[i].imag <= 0.0 or slope[i].real <= GROUP_VELOCITY_FLOOR:
+            continue
+        alpha = spatial_wavenumber(os_, re_theta, alphas[i], w[i], slope[i])
+        if alpha is not None:
+            rate[i] = max(-alpha.imag, 0.0)
     order = np.argsort(w.real)
     return w.real[order], rate[order]
 
@@ -298,7 +338,7 @@ def profiles_at(shape_factors: list[float]) -> list[fs.Profile]:
 HEADER = """\
 # Envelope of e^N amplification for Falkner–Skan flows from our own Orr–Sommerfeld solutions.
 # Written by scripts/orr_sommerfeld_envelope.py (Chebyshev collocation, {points} points, mapped
-# domain; temporal eigenvalues, Gaster's transformation to spatial rates; envelope over waves of
+# domain; temporal eigenvalues continued to complex α for spatial rates; envelope over waves of
 # fixed physical frequency of each similar flow). Do not edit by hand.
 # shape_factor H; critical_re_theta = lowest Re_theta with a growing wave; re_theta_ratio =
 # Re_theta / critical_re_theta; envelope_slope = dN/dRe_theta of the envelope; envelope_n = N.
