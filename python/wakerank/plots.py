@@ -36,6 +36,12 @@ PARAMETER_LABELS = {
     "area": "cross-section area A/c^2 (-)",
 }
 
+#: Chords of wake shown behind the section in boundary-layer panels (x/c up to this value).
+WAKE_SHOWN = 2.0
+#: Stations within this x/c of the nose are left out when scaling cf and H axes (the
+#: stagnation-point values would flatten the rest).
+LEADING_EDGE_SKIP = 0.02
+
 #: Tolerance for matching a requested Reynolds number or design cl against stored values.
 MATCH_RELATIVE = 1e-6
 
@@ -198,16 +204,23 @@ def section_figure(
         if part.height == 0:
             continue
         x = part["x"].to_numpy()
-        if side != "wake":
-            ue = part["edge_velocity"].to_numpy()
-            cp_axes.plot(x, 1.0 - ue**2, color=color, lw=1.5, label=f"viscous, {side}")
         theta_axes.plot(x, part["theta"].to_numpy(), color=color, label=side)
         shape_axes.plot(x, part["shape_factor"].to_numpy(), color=color, label=side)
+        if side == "wake":  # no wall: no skin friction; no instability growth is followed
+            continue
+        ue = part["edge_velocity"].to_numpy()
+        cp_axes.plot(x, 1.0 - ue**2, color=color, lw=1.5, label=f"viscous, {side}")
         cf_axes.plot(x, part["cf"].to_numpy(), color=color, label=side)
         amp_axes.plot(x, part["amplification"].to_numpy(), color=color, label=side)
     cp_axes.invert_yaxis()
     if n_factor:
         amp_axes.axhline(n_factor, color="k", ls="--", lw=0.8, label=f"critical N = {n_factor:g}")
+    on_wall = stations.filter((pl.col("side") != "wake") & (pl.col("x") > LEADING_EDGE_SKIP))
+    _robust_ylim(cf_axes, on_wall["cf"].to_numpy())
+    _robust_ylim(shape_axes, stations.filter(pl.col("x") > LEADING_EDGE_SKIP)["shape_factor"].to_numpy())
+    wake_end = min(float(stations["x"].max() or 1.0), WAKE_SHOWN)
+    for axes in (theta_axes, shape_axes):
+        axes.set_xlim(-0.02, wake_end)
     shape_geometry.set_aspect("equal", adjustable="datalim")
     axis_labels = (
         (cp_axes, "pressure coefficient cp (-)", "pressure"),
@@ -229,6 +242,16 @@ def section_figure(
     )
     figure.tight_layout()
     return figure
+
+
+def _robust_ylim(axes, values: np.ndarray) -> None:  # type: ignore[no-untyped-def]
+    """Scale the y axis to the 1st-99th percentile of the finite values, with a margin."""
+    finite = values[np.isfinite(values)]
+    if finite.size < 5:
+        return
+    low, high = np.percentile(finite, [1.0, 99.0])
+    margin = 0.15 * (high - low) if high > low else max(abs(high), 1e-6) * 0.1
+    axes.set_ylim(min(low - margin, 0.0) if low >= 0 else low - margin, high + margin)
 
 
 def parameter_label(name: str) -> str:
