@@ -1,6 +1,6 @@
 """Run campaign chunks on a Dask cluster: connection and task submission for the runner.
 
-The runner's Dask backend (`wakerank.runner.DaskBackend`) hands over pending chunks and the
+`DaskBackend` (the runner's backend for ``--cluster``) hands over pending chunks and the
 pure, picklable chunk function `wakerank.runner.run_chunk`; each chunk runs as one Dask task
 on some worker, which writes its Parquet part atomically into the shared output folder. Part
 names depend only on the chunk's content, so a retried chunk rewrites the same file and the
