@@ -9,8 +9,8 @@ import wakerank as wr
 from wakerank.bench import numpy_panel
 from wakerank.karman_trefftz import KarmanTrefftzSection
 
-# Two Kármán–Trefftz shapes with finite trailing-edge angles (see docs/method.md for the cusp).
-SHAPES = [(-0.08, 0.08, 5.0), (-0.12, 0.10, 10.0)]
+# Kármán–Trefftz shapes: τ = 5° and 10°, and the cusped Joukowski section of the reference data.
+SHAPES = [(-0.08, 0.08, 5.0), (-0.12, 0.10, 10.0), (-0.08, 0.08, 0.0)]
 
 
 @pytest.mark.parametrize("shape", SHAPES)
@@ -49,6 +49,18 @@ def test_rust_matches_numpy_oracle(shape: tuple[float, float, float]) -> None:
     surface = wr.surface(kt, alpha_deg=2.0, panels=None)
     np.testing.assert_allclose(surface["cp"].to_numpy(), oracle["cp"][1], rtol=1e-9, atol=1e-11)
     np.testing.assert_allclose(surface["edge_velocity"].to_numpy(), oracle["gamma"][1], atol=1e-11)
+
+
+@pytest.mark.parametrize("code", ["2412", "0012"])
+@pytest.mark.parametrize("closed_te", [False, True])
+def test_rust_matches_numpy_oracle_on_naca(code: str, closed_te: bool) -> None:
+    # Blunt (open) and closed trailing edges, on the geometry module's re-panelled points.
+    section = wr.Section.naca(code, closed_te=closed_te).repanel(120)
+    alphas = np.array([-2.0, 5.0])
+    oracle = numpy_panel.solve(section.x, section.y, alphas)
+    table = wr.analyze(section, alpha_deg=alphas, panels=None)
+    for key in ("cl", "cl_circulation", "cm_c4", "cd_pressure", "cp_min"):
+        np.testing.assert_allclose(table[key].to_numpy(), oracle[key], rtol=1e-8, atol=1e-10)
 
 
 def test_karman_tsien_and_critical_mach() -> None:

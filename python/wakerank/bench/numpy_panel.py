@@ -3,9 +3,10 @@
 The same equations as the compiled core (Katz & Plotkin, *Low-Speed Aerodynamics*, §11.4):
 nodes from the upper trailing edge round counter-clockwise, a clockwise-positive vortex sheet
 varying linearly between node strengths γ, zero normal velocity at the panel midpoints, the
-Kutta condition γ₀ + γ_{N−1} = 0, two base solutions (α = 0°, 90°) superposed for every angle,
-surface speed = sheet strength with the two trailing-edge nodes extrapolated from their neighbours.
-Written independently of the Rust code, so a test comparing the two checks both.
+Kutta condition γ₀ + γ_{N−1} = 0 and, for a sharp trailing edge, the interior-rest condition
+near the edge with its interior source (docs/method.md); two base solutions (α = 0°, 90°)
+superposed for every angle. Written independently of the Rust code, so a test comparing the
+two checks both.
 """
 
 from __future__ import annotations
@@ -23,18 +24,21 @@ def _panel_geometry(x: np.ndarray, y: np.ndarray) -> tuple[np.ndarray, ...]:
     return length, tx, ty, mx, my
 
 
-def influence_matrix(x: np.ndarray, y: np.ndarray) -> np.ndarray:
-    """The N×N system: normal velocity at the N−1 midpoints per unit node γ, then the Kutta row."""
-    length, tx, ty, mx, my = _panel_geometry(x, y)
-    n = x.size
-    rel_x = mx[:, None] - x[None, :]
-    rel_y = my[:, None] - y[None, :]
+def vortex_velocity(
+    x: np.ndarray, y: np.ndarray, px: np.ndarray, py: np.ndarray, on_panel: bool
+) -> tuple[np.ndarray, np.ndarray]:
+    """Velocity (u, v) at points (px, py) per unit node strength, shape (points, nodes).
+    ``on_panel``: point i is the midpoint of panel i (principal value on that panel)."""
+    length, tx, ty, _, _ = _panel_geometry(x, y)
+    rel_x = px[:, None] - x[None, :]
+    rel_y = py[:, None] - y[None, :]
     angle = np.arctan2(rel_y, rel_x)
     log_r2 = np.log(np.maximum(rel_x**2 + rel_y**2, 1e-300))
     dtheta = angle[:, 1:] - angle[:, :-1]
     dtheta = np.where(dtheta > np.pi, dtheta - 2 * np.pi, dtheta)
     dtheta = np.where(dtheta < -np.pi, dtheta + 2 * np.pi, dtheta)
-    np.fill_diagonal(dtheta, 0.0)  # principal value on the panel itself
+    if on_panel:
+        np.fill_diagonal(dtheta, 0.0)
     log_ratio = 0.5 * (log_r2[:, :-1] - log_r2[:, 1:])
     xl = rel_x[:, :-1] * tx + rel_y[:, :-1] * ty
     yl = -rel_x[:, :-1] * ty + rel_y[:, :-1] * tx
@@ -42,14 +46,54 @@ def influence_matrix(x: np.ndarray, y: np.ndarray) -> np.ndarray:
     q = (xl * log_ratio + yl * dtheta) / length - 1.0
     ua, ub = (dtheta - p) * _INV_2PI, p * _INV_2PI
     va, vb = -(log_ratio - q) * _INV_2PI, -q * _INV_2PI
-    nx, ny = ty[:, None], -tx[:, None]
-    # normal of (u t̂ + v ŷ), ŷ = (−t_y, t_x), for start (a) and end (b) node of each panel
-    tn = tx * nx + ty * ny
-    yn = -ty * nx + tx * ny
-    matrix = np.zeros((n, n))
-    matrix[:-1, :-1] += ua * tn + va * yn
-    matrix[:-1, 1:] += ub * tn + vb * yn
-    matrix[-1, 0] = matrix[-1, -1] = 1.0
+    u = np.zeros((px.size, x.size))
+    v = np.zeros((px.size, x.size))
+    # global velocity = u_local t̂ + v_local ŷ with ŷ = (−t_y, t_x)
+    u[:, :-1] += ua * tx - va * ty
+    v[:, :-1] += ua * ty + va * tx
+    u[:, 1:] += ub * tx - vb * ty
+    v[:, 1:] += ub * ty + vb * tx
+    return u, v
+
+
+def interior_control(x: np.ndarray, y: np.ndarray) -> tuple[bool, np.ndarray, np.ndarray, np.ndarray]:
+    """(active, probe, direction, source) of the trailing-edge interior-rest condition."""
+    length, tx, ty, mx, my = _panel_geometry(x, y)
+    probe = np.array([0.5 * (mx[0] + mx[-1]), 0.5 * (my[0] + my[-1])])
+    b = np.array([tx[-1] - tx[0], ty[-1] - ty[0]])
+    direction = b / np.hypot(*b) if np.hypot(*b) > 1e-12 else np.array([1.0, 0.0])
+    te = np.array([0.5 * (x[0] + x[-1]), 0.5 * (y[0] + y[-1])])
+    le_index = int(np.argmax(np.hypot(x - te[0], y - te[1])))
+    le = np.array([x[le_index], y[le_index]])
+    chord_vec = te - le
+    fraction = ((x - le[0]) * chord_vec[0] + (y - le[1]) * chord_vec[1]) / max(chord_vec @ chord_vec, 1e-300)
+    upper = int(np.argmin(np.abs(fraction[: max(le_index, 1)] - 0.35)))
+    lower = le_index + int(np.argmin(np.abs(fraction[le_index:] - 0.35)))
+    source = np.array([0.5 * (x[upper] + x[lower]), 0.5 * (y[upper] + y[lower])])
+    active = bool(np.hypot(x[0] - x[-1], y[0] - y[-1]) < 1e-3 * min(length[0], length[-1]))
+    return active, probe, direction, source
+
+
+def influence_matrix(x: np.ndarray, y: np.ndarray) -> np.ndarray:
+    """The (N+1)² system: midpoint tangency rows, the Kutta row, the interior row."""
+    length, tx, ty, mx, my = _panel_geometry(x, y)
+    n = x.size
+    nx, ny = ty, -tx
+    active, probe, direction, source = interior_control(x, y)
+    matrix = np.zeros((n + 1, n + 1))
+    u, v = vortex_velocity(x, y, mx, my, on_panel=True)
+    matrix[: n - 1, :n] = u * nx[:, None] + v * ny[:, None]
+    rx, ry = mx - source[0], my - source[1]
+    r2 = rx**2 + ry**2
+    matrix[: n - 1, n] = _INV_2PI * (rx * nx + ry * ny) / r2
+    matrix[n - 1, 0] = matrix[n - 1, n - 1] = 1.0
+    if active:
+        u, v = vortex_velocity(x, y, probe[:1], probe[1:], on_panel=False)
+        matrix[n, :n] = u[0] * direction[0] + v[0] * direction[1]
+        d = probe - source
+        matrix[n, n] = _INV_2PI * (d @ direction) / (d @ d)
+    else:
+        matrix[n, n] = 1.0
     return matrix
 
 
@@ -59,18 +103,20 @@ def solve(x: np.ndarray, y: np.ndarray, alphas_deg: np.ndarray) -> dict[str, np.
     y = np.asarray(y, dtype=np.float64)
     alphas = np.atleast_1d(np.asarray(alphas_deg, dtype=np.float64))
     length, tx, ty, mx, my = _panel_geometry(x, y)
+    n = x.size
+    active, _, direction, _ = interior_control(x, y)
     matrix = influence_matrix(x, y)
-    rhs = np.zeros((x.size, 2))
-    rhs[:-1, 0] = -ty  # −n_x
-    rhs[:-1, 1] = tx  # −n_y
-    base = np.linalg.solve(matrix, rhs)
+    rhs = np.zeros((n + 1, 2))
+    rhs[: n - 1, 0] = -ty  # −n_x
+    rhs[: n - 1, 1] = tx  # −n_y
+    if active:
+        rhs[n] = -direction
+    base = np.linalg.solve(matrix, rhs)[:n]
     a = np.radians(alphas)
-    sheet = np.cos(a)[:, None] * base[:, 0] + np.sin(a)[:, None] * base[:, 1]
-    # Surface speed = sheet strength (interior at rest), except the two trailing-edge nodes,
-    # which are ill-determined and extrapolated linearly in arc length from their neighbours.
-    gamma = sheet.copy()
-    gamma[:, 0] = sheet[:, 1] + (sheet[:, 1] - sheet[:, 2]) * length[0] / length[1]
-    gamma[:, -1] = sheet[:, -2] + (sheet[:, -2] - sheet[:, -3]) * length[-1] / length[-2]
+    gamma = np.cos(a)[:, None] * base[:, 0] + np.sin(a)[:, None] * base[:, 1]
+    if not active:  # blunt trailing edge: corner speeds extrapolated from their neighbours
+        gamma[:, 0] = gamma[:, 1] + (gamma[:, 1] - gamma[:, 2]) * length[0] / length[1]
+        gamma[:, -1] = gamma[:, -2] + (gamma[:, -2] - gamma[:, -3]) * length[-1] / length[-2]
     cp = 1.0 - gamma**2
     cp_mean = 0.5 * (cp[:, :-1] + cp[:, 1:])
     fx = np.sum(-cp_mean * ty * length, axis=1)
@@ -90,7 +136,6 @@ def solve(x: np.ndarray, y: np.ndarray, alphas_deg: np.ndarray) -> dict[str, np.
     circulation = np.sum(0.5 * (gamma[:, :-1] + gamma[:, 1:]) * length, axis=1)
     return {
         "alpha_deg": alphas,
-        "sheet": sheet,
         "gamma": gamma,
         "cp": cp,
         "cl": (fy * np.cos(a) - fx * np.sin(a)) / chord,
@@ -101,4 +146,4 @@ def solve(x: np.ndarray, y: np.ndarray, alphas_deg: np.ndarray) -> dict[str, np.
     }
 
 
-__all__ = ["influence_matrix", "solve"]
+__all__ = ["influence_matrix", "interior_control", "solve", "vortex_velocity"]

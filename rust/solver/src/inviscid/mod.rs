@@ -2,13 +2,13 @@
 //!
 //! Method (Katz & Plotkin, *Low-Speed Aerodynamics*, 2nd ed., §11.4 "linear-strength vortex
 //! method"): the surface loop of N nodes is cut into N − 1 straight panels carrying a vortex
-//! sheet whose strength varies linearly between the node values γᵢ. The N unknowns follow from
-//! zero normal velocity at the N − 1 panel midpoints and the Kutta condition γ₀ + γ_{N−1} = 0.
+//! sheet whose strength varies linearly between the node values γᵢ. They follow from zero
+//! normal velocity at the N − 1 panel midpoints and the Kutta condition γ₀ + γ_{N−1} = 0.
 //! With the normal velocity zero all round, the fluid inside the loop is at rest, so the
-//! surface speed just outside equals the local sheet strength: γᵢ is the surface speed. Only
-//! the two trailing-edge nodes, where the interior is a sliver that the midpoint conditions
-//! barely see, get their speed by extrapolation from their neighbours
-//! ([`PanelSolver::surface_speed`]).
+//! surface speed just outside equals the local sheet strength: γᵢ is the surface speed.
+//! Near a sharp trailing edge the interior is a sliver that the midpoint conditions barely see;
+//! one more condition (interior at rest there) with one more unknown (an interior source that
+//! comes out nearly zero) determines the trailing-edge strengths (`InteriorControl`).
 //!
 //! Conventions (shared with the viscous coupling):
 //! - nodes run from the upper trailing edge forward over the upper surface, round the leading
@@ -22,10 +22,11 @@
 //!
 //! Blunt trailing edge: when the first and last nodes do not coincide, the base between them is
 //! left open (no panel) and the same Kutta condition makes the flow leave both corners at equal
-//! speed. For the forces the base carries the mean trailing-edge Cp (dead air at the corner
-//! pressure), so the pressure is integrated over a closed contour. The gap lets a little fluid into the interior, an error of the order of the base
-//! height over the chord; sections with a base larger than the geometry module's limit are
-//! rejected before they get here.
+//! speed. The open sheet ends make the two corner strengths unreliable; their speeds are
+//! extrapolated from the neighbouring nodes (`surface_speed`). For the forces the base carries
+//! the mean trailing-edge Cp (dead air at the corner pressure), so the pressure is integrated
+//! over a closed contour. The gap lets a little fluid into the interior, an error of the order
+//! of the base height over the chord; the geometry module limits the base height.
 //!
 //! Only one LU factorisation is made per geometry; every α is the superposition
 //! γ(α) = cos α · γ(0°) + sin α · γ(90°) of two base solutions.
@@ -52,9 +53,11 @@ pub const MIN_POINTS: usize = 10;
 pub struct PanelSolver {
     panels: Panels,
     lu: LuFactors,
-    /// Sheet strengths of the α = 0° and 90° free streams.
+    /// Unknowns of the α = 0° and 90° free streams: the N node sheet strengths, then the
+    /// strength of the interior source (see [`InteriorControl`]).
     sheet_0: Vec<f64>,
     sheet_90: Vec<f64>,
+    interior: InteriorControl,
     arc: Vec<f64>,
     chord: f64,
     /// Quarter-chord reference point for the moment.
@@ -125,7 +128,8 @@ impl PanelSolver {
                 k + 1
             )));
         }
-        let (matrix, rhs_0, rhs_90) = assemble(&panels);
+        let interior = InteriorControl::new(&panels);
+        let (matrix, rhs_0, rhs_90) = assemble(&panels, &interior);
         let lu = LuFactors::new(matrix)?;
         let sheet_0 = lu.solve(&rhs_0);
         let sheet_90 = lu.solve(&rhs_90);
@@ -139,6 +143,7 @@ impl PanelSolver {
             lu,
             sheet_0,
             sheet_90,
+            interior,
             arc,
             chord,
             quarter_chord,
@@ -182,27 +187,29 @@ impl PanelSolver {
     }
 
     /// Signed surface speeds at the nodes for `alpha_deg` (γ > 0 towards the upper trailing
-    /// edge): the sheet strengths, trailing-edge nodes extrapolated (see [`Self::surface_speed`]).
+    /// edge): the node sheet strengths (the fluid inside the loop is at rest), corners of a
+    /// blunt trailing edge extrapolated.
     pub fn gamma_at(&self, alpha_deg: f64) -> Vec<f64> {
-        self.surface_speed(self.sheet_at(alpha_deg))
+        self.surface_speed(&self.sheet_at(alpha_deg))
     }
 
-    /// Vortex-sheet node strengths for `alpha_deg` (superposition of the base solutions).
+    /// Unknowns for `alpha_deg` (node strengths, then the interior source strength).
     pub(crate) fn sheet_at(&self, alpha_deg: f64) -> Vec<f64> {
         superpose(alpha_deg, &self.sheet_0, &self.sheet_90)
     }
 
-    /// Surface speeds from sheet strengths. Inside the loop the fluid is at rest, so the outer
-    /// speed equals the sheet strength, except at the two trailing-edge nodes: there the
-    /// interior is a sliver that the midpoint conditions barely see and the node strengths are
-    /// ill-determined, so their speeds are extrapolated linearly in arc length from the two
-    /// nodes beside them on the same side. A linear map, so it also applies to derivatives.
-    pub fn surface_speed(&self, mut sheet: Vec<f64>) -> Vec<f64> {
-        let l = &self.panels.len;
-        let n = sheet.len();
-        sheet[0] = sheet[1] + (sheet[1] - sheet[2]) * l[0] / l[1];
-        sheet[n - 1] = sheet[n - 2] + (sheet[n - 2] - sheet[n - 3]) * l[n - 2] / l[n - 3];
-        sheet
+    /// Surface speeds from the unknowns: the N node sheet strengths. At a blunt trailing edge
+    /// the open sheet ends make the two corner strengths unreliable, so their speeds are
+    /// extrapolated linearly in arc length from the two nodes beside them on the same side.
+    pub(crate) fn surface_speed(&self, sheet: &[f64]) -> Vec<f64> {
+        let n = self.panels.nodes();
+        let mut speed = sheet[..n].to_vec();
+        if !self.interior.active {
+            let l = &self.panels.len;
+            speed[0] = speed[1] + (speed[1] - speed[2]) * l[0] / l[1];
+            speed[n - 1] = speed[n - 2] + (speed[n - 2] - speed[n - 3]) * l[n - 2] / l[n - 3];
+        }
+        speed
     }
 
     /// Assemble a solution from the signed node speeds: Cp (Kármán–Tsien corrected when
@@ -285,41 +292,160 @@ impl PanelSolver {
             },
         );
         let (s, c) = alpha_deg.to_radians().sin_cos();
-        let u = c + cu.iter().zip(gamma).map(|(a, g)| a * g).sum::<f64>();
-        let v = s + cv.iter().zip(gamma).map(|(a, g)| a * g).sum::<f64>();
+        let (qu, qv) = self.interior.source_velocity(px, py);
+        let q = gamma[n];
+        let u = c + cu.iter().zip(gamma).map(|(a, g)| a * g).sum::<f64>() + qu * q;
+        let v = s + cv.iter().zip(gamma).map(|(a, g)| a * g).sum::<f64>() + qv * q;
         (u, v)
+    }
+
+    /// The interior control of this solver.
+    pub(crate) fn interior(&self) -> &InteriorControl {
+        &self.interior
     }
 }
 
-/// Assemble the N×N system (N − 1 midpoint tangency rows, then the Kutta row) and the
+/// The extra unknown and equation that keep the trailing-edge sliver at rest.
+///
+/// Next to the trailing edge the interior of the loop is a thin sliver; the midpoint tangency
+/// conditions barely see the flow inside it, so on their own they leave the two trailing-edge
+/// node strengths ill-determined (badly so for a cusp). One more equation states what the
+/// method assumes there: the interior fluid is at rest, i.e. the velocity along the
+/// trailing-edge bisector vanishes at the `probe` midway between the midpoints of the two
+/// trailing-edge panels. To keep the system square it comes with one more unknown, a point
+/// source of strength Q at `source`, well inside the section near 35 % chord. A closed body
+/// cannot hold a net source under zero normal flow, so Q is driven to (nearly) zero by the
+/// tangency rows themselves and only the sliver mode is constrained.
+#[derive(Debug, Clone)]
+pub(crate) struct InteriorControl {
+    /// False for a blunt trailing edge, whose open base lets the interior communicate with the
+    /// outer flow: the source is then fixed at zero (row `Q = 0`).
+    pub active: bool,
+    pub probe: (f64, f64),
+    pub direction: (f64, f64),
+    pub source: (f64, f64),
+}
+
+impl InteriorControl {
+    fn new(panels: &Panels) -> Self {
+        let n = panels.nodes();
+        let np = panels.count();
+        let probe = (
+            0.5 * (panels.mx[0] + panels.mx[np - 1]),
+            0.5 * (panels.my[0] + panels.my[np - 1]),
+        );
+        let (bx, by) = (
+            panels.tx[np - 1] - panels.tx[0],
+            panels.ty[np - 1] - panels.ty[0],
+        );
+        let norm = bx.hypot(by);
+        let direction = if norm > 1e-12 {
+            (bx / norm, by / norm)
+        } else {
+            (1.0, 0.0)
+        };
+        // Source: midway between the upper and lower nodes nearest 35 % of the chord.
+        let te = (
+            0.5 * (panels.x[0] + panels.x[n - 1]),
+            0.5 * (panels.y[0] + panels.y[n - 1]),
+        );
+        let le_index = (0..n)
+            .max_by(|&a, &b| {
+                let da = (panels.x[a] - te.0).hypot(panels.y[a] - te.1);
+                let db = (panels.x[b] - te.0).hypot(panels.y[b] - te.1);
+                da.total_cmp(&db)
+            })
+            .unwrap_or(n / 2);
+        let (lx, ly) = (panels.x[le_index], panels.y[le_index]);
+        let (cx, cy) = (te.0 - lx, te.1 - ly);
+        let c2 = (cx * cx + cy * cy).max(1e-300);
+        let fraction = |k: usize| ((panels.x[k] - lx) * cx + (panels.y[k] - ly) * cy) / c2;
+        let nearest = |range: std::ops::Range<usize>| {
+            range
+                .min_by(|&a, &b| {
+                    (fraction(a) - 0.35)
+                        .abs()
+                        .total_cmp(&(fraction(b) - 0.35).abs())
+                })
+                .unwrap_or(le_index)
+        };
+        let upper = nearest(0..le_index.max(1));
+        let lower = nearest(le_index..n);
+        let source = (
+            0.5 * (panels.x[upper] + panels.x[lower]),
+            0.5 * (panels.y[upper] + panels.y[lower]),
+        );
+        let base = (panels.x[0] - panels.x[n - 1]).hypot(panels.y[0] - panels.y[n - 1]);
+        let active = base < 1e-3 * panels.len[0].min(panels.len[np - 1]);
+        InteriorControl {
+            active,
+            probe,
+            direction,
+            source,
+        }
+    }
+
+    /// Velocity at (px, py) per unit strength of the interior point source.
+    pub fn source_velocity(&self, px: f64, py: f64) -> (f64, f64) {
+        let (dx, dy) = (px - self.source.0, py - self.source.1);
+        let r2 = (dx * dx + dy * dy).max(1e-300);
+        (
+            dx / (2.0 * std::f64::consts::PI * r2),
+            dy / (2.0 * std::f64::consts::PI * r2),
+        )
+    }
+}
+
+/// Assemble the (N+1)² system: N − 1 midpoint tangency rows, the Kutta row, the interior
+/// row ([`InteriorControl`]); unknowns the N node strengths and the interior source. Also the
 /// right-hand sides of the α = 0° and α = 90° free streams.
-fn assemble(panels: &Panels) -> (DenseMatrix, Vec<f64>, Vec<f64>) {
+fn assemble(panels: &Panels, interior: &InteriorControl) -> (DenseMatrix, Vec<f64>, Vec<f64>) {
     let n = panels.nodes();
-    let mut matrix = DenseMatrix::zeros(n, n);
-    let (mut rhs_0, mut rhs_90) = (vec![0.0; n], vec![0.0; n]);
+    let mut matrix = DenseMatrix::zeros(n + 1, n + 1);
+    let (mut rhs_0, mut rhs_90) = (vec![0.0; n + 1], vec![0.0; n + 1]);
     let mut scratch = Scratch::default();
     let (mut cu, mut cv) = (vec![0.0; n], vec![0.0; n]);
+    let mut row_at =
+        |px: f64, py: f64, on: Option<usize>, (dx, dy): (f64, f64), row: &mut [f64]| {
+            influence_at(
+                panels,
+                px,
+                py,
+                on,
+                &mut scratch,
+                Coefficients {
+                    vortex: Some((&mut cu, &mut cv)),
+                    source: None,
+                },
+            );
+            for (a, (u, v)) in row.iter_mut().zip(cu.iter().zip(&cv)) {
+                *a = u * dx + v * dy;
+            }
+            let (su, sv) = interior.source_velocity(px, py);
+            row[n] = su * dx + sv * dy;
+        };
     for i in 0..panels.count() {
-        influence_at(
-            panels,
+        let normal = panels.normal(i);
+        row_at(
             panels.mx[i],
             panels.my[i],
             Some(i),
-            &mut scratch,
-            Coefficients {
-                vortex: Some((&mut cu, &mut cv)),
-                source: None,
-            },
+            normal,
+            matrix.row_mut(i),
         );
-        let (nx, ny) = panels.normal(i);
-        for (a, (u, v)) in matrix.row_mut(i).iter_mut().zip(cu.iter().zip(&cv)) {
-            *a = u * nx + v * ny;
-        }
-        rhs_0[i] = -nx;
-        rhs_90[i] = -ny;
+        rhs_0[i] = -normal.0;
+        rhs_90[i] = -normal.1;
     }
     matrix.set(n - 1, 0, 1.0);
     matrix.set(n - 1, n - 1, 1.0);
+    if interior.active {
+        let (px, py) = interior.probe;
+        row_at(px, py, None, interior.direction, matrix.row_mut(n));
+        rhs_0[n] = -interior.direction.0;
+        rhs_90[n] = -interior.direction.1;
+    } else {
+        matrix.set(n, n, 1.0);
+    }
     (matrix, rhs_0, rhs_90)
 }
 

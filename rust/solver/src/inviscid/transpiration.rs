@@ -5,13 +5,12 @@
 //! ξ the boundary-layer arc length running from the stagnation point towards each trailing
 //! edge and along the wake. Each surface panel and each wake panel carries a uniform σ.
 //!
-//! **Trailing-edge nodes.** The inviscid speed of the two trailing-edge nodes is extrapolated
-//! from their neighbours (`PanelSolver::surface_speed`: the free-stream solution there is
-//! ill-determined); the *change* caused by transpiration is taken from the re-solved sheet
-//! strength itself, which keeps the response local and physical (D_ii > 0 at the trailing
-//! edge as everywhere else). The speed with transpiration is therefore
-//! q = q_inviscid + Δ(sheet), an affine map, and `edge_velocity + D·m` reproduces
-//! `solve_with_transpiration` exactly.
+//! **Interior control.** The unknowns are the N node strengths and the strength of the
+//! interior source of `InteriorControl` (nearly zero); sources enter its rest condition too.
+//! At the corners of a blunt trailing edge the inviscid speed is extrapolated from the
+//! neighbours and the transpiration response is that of the re-solved sheet (q = q_inv + Δγ),
+//! an affine map, so `edge_velocity + D·m` reproduces `solve_with_transpiration` exactly and
+//! the diagonal of D stays positive.
 //!
 //! **Mass-defect unknowns.** There is one m per surface node, then one per wake node:
 //! - on the surface m is *signed like γ*: mᵢ = γᵢ·δ*ᵢ (so mᵢ = uₑδ* on the upper side, where
@@ -89,11 +88,12 @@ impl WakeData {
 }
 
 impl PanelSolver {
-    /// Surface speeds with transpiration: the inviscid speeds at `alpha_deg` (trailing-edge
-    /// nodes extrapolated) plus the change of the sheet strengths that the sources cause.
+    /// Surface speeds with transpiration: the inviscid speeds at `alpha_deg` plus the change of
+    /// the node sheet strengths that the sources cause (identical to the sheet strengths except
+    /// at the extrapolated corners of a blunt trailing edge).
     fn transpired_speed(&self, alpha_deg: f64, sheet: &[f64]) -> Vec<f64> {
         let inviscid_sheet = self.sheet_at(alpha_deg);
-        let inviscid = self.surface_speed(inviscid_sheet.clone());
+        let inviscid = self.surface_speed(&inviscid_sheet);
         inviscid
             .iter()
             .zip(sheet.iter().zip(&inviscid_sheet))
@@ -110,28 +110,45 @@ impl PanelSolver {
             self.panels.count(),
             wake.panels.count(),
         );
-        let mut rows = DenseMatrix::zeros(n, np + nw);
+        let mut rows = DenseMatrix::zeros(n + 1, np + nw);
         let mut scratch = Scratch::default();
         let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
         let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
-        for i in 0..np {
-            let (px, py) = (self.panels.mx[i], self.panels.my[i]);
-            let (nx, ny) = self.panels.normal(i);
+        let control = self.interior();
+        for i in 0..=np {
+            // Rows 0..np: tangency at the midpoints; row np (Kutta) stays zero; row n: the
+            // interior rest condition at the probe.
+            let (px, py, (nx, ny), on) = if i < np {
+                (
+                    self.panels.mx[i],
+                    self.panels.my[i],
+                    self.panels.normal(i),
+                    Some(i),
+                )
+            } else {
+                (control.probe.0, control.probe.1, control.direction, None)
+            };
+            if i == np && !control.active {
+                break;
+            }
+            let row_index = if i < np { i } else { n };
             let on_body = Coefficients {
                 vortex: None,
                 source: Some((&mut su, &mut sv)),
             };
-            influence_at(&self.panels, px, py, Some(i), &mut scratch, on_body);
+            influence_at(&self.panels, px, py, on, &mut scratch, on_body);
             let on_wake = Coefficients {
                 vortex: None,
                 source: Some((&mut wu, &mut wv)),
             };
             influence_at(&wake.panels, px, py, None, &mut scratch, on_wake);
-            let row = rows.row_mut(i);
+            let row = rows.row_mut(row_index);
             for k in 0..np {
                 row[k] = su[k] * nx + sv[k] * ny;
             }
-            row[i] -= 0.5;
+            if i < np {
+                row[i] -= 0.5;
+            }
             for k in 0..nw {
                 row[np + k] = wu[k] * nx + wv[k] * ny;
             }
@@ -147,7 +164,7 @@ impl PanelSolver {
             self.panels.count(),
             wake.panels.count(),
         );
-        let mut vortex = DenseMatrix::zeros(nw, n);
+        let mut vortex = DenseMatrix::zeros(nw, n + 1);
         let mut source = DenseMatrix::zeros(nw, np + nw);
         let mut scratch = Scratch::default();
         let (mut vu, mut vv) = (vec![0.0; n], vec![0.0; n]);
@@ -169,6 +186,8 @@ impl PanelSolver {
             for j in 0..n {
                 vortex.set(k, j, vu[j] * tx + vv[j] * ty);
             }
+            let (qu, qv) = self.interior().source_velocity(px, py);
+            vortex.set(k, n, qu * tx + qv * ty);
             let row = source.row_mut(k);
             for j in 0..np {
                 row[j] = su[j] * tx + sv[j] * ty;
@@ -255,11 +274,14 @@ impl PanelSolver {
         let sigma: Vec<f64> = surface_sigma.iter().chain(wake_sigma).copied().collect();
         let normal = self.source_normal_rows(&data).matvec(&sigma);
         let (s, c) = alpha_deg.to_radians().sin_cos();
-        let mut rhs: Vec<f64> = (0..n)
+        let direction = self.interior().direction;
+        let mut rhs: Vec<f64> = (0..=n)
             .map(|i| {
                 if i < np {
                     let (nx, ny) = self.panels.normal(i);
                     -(c * nx + s * ny) - normal[i]
+                } else if i == n && self.interior().active {
+                    -(c * direction.0 + s * direction.1) - normal[n]
                 } else {
                     0.0
                 }
@@ -324,30 +346,31 @@ impl PanelSolver {
                 [before, after]
             }
         };
-        // Surface rows: dγ/dm = −A⁻¹·(B·S), one LU solve per column.
-        let mut d_gamma = DenseMatrix::zeros(n, total);
-        let mut rhs = vec![0.0; n];
+        // Unknowns: d(sheet, Q)/dm = −A⁻¹·(B·S), one LU solve per column.
+        let unknowns = n + 1;
+        let mut d_gamma = DenseMatrix::zeros(unknowns, total);
+        let mut rhs = vec![0.0; unknowns];
         for j in 0..total {
             rhs.iter_mut().for_each(|r| *r = 0.0);
             for (k, w) in column(j) {
                 if w != 0.0 {
-                    for i in 0..np {
+                    for i in 0..unknowns {
                         rhs[i] -= normal.get(i, k) * w;
                     }
                 }
             }
             self.lu.solve_in_place(&mut rhs);
-            for i in 0..n {
+            for i in 0..unknowns {
                 d_gamma.set(i, j, rhs[i]);
             }
         }
-        // Wake rows at the midpoints: vortex part through dγ/dm plus the direct source part.
+        // Wake rows at the midpoints: vortex part through d(sheet)/dm plus the direct source part.
         let (vortex, source) = self.wake_tangential_rows(&data);
         let mut d_mid = DenseMatrix::zeros(nw, total);
         for k in 0..nw {
             let vrow = vortex.row(k);
             let out = d_mid.row_mut(k);
-            for i in 0..n {
+            for i in 0..unknowns {
                 let a = vrow[i];
                 if a != 0.0 {
                     for (o, g) in out.iter_mut().zip(d_gamma.row(i)) {
@@ -363,49 +386,11 @@ impl PanelSolver {
                 }
             }
         }
-        // Surface rows: the sheet-strength response (no trailing-edge extrapolation, see the
-        // module documentation).
+        // Surface rows: the node sheet strengths are the surface speeds.
         let mut d = DenseMatrix::zeros(total, total);
         for i in 0..n {
             d.row_mut(i).copy_from_slice(d_gamma.row(i));
         }
-        // Wake rows at the midpoints: vortex part through dγ/dm plus the direct source part.
-        let (vortex, source) = self.wake_tangential_rows(&data);
-        let mut d_mid = DenseMatrix::zeros(nw, total);
-        for k in 0..nw {
-            let vrow = vortex.row(k);
-            let out = d_mid.row_mut(k);
-            for i in 0..n {
-                let a = vrow[i];
-                if a != 0.0 {
-                    for (o, g) in out.iter_mut().zip(d_gamma.row(i)) {
-                        *o += a * g;
-                    }
-                }
-            }
-            for (j, o) in out.iter_mut().enumerate() {
-                for (p, w) in column(j) {
-                    if w != 0.0 {
-                        *o += source.get(k, p) * w;
-                    }
-                }
-            }
-        }
-        // Surface rows: the sheet-strength response (no trailing-edge extrapolation, see the
-        // module documentation).
-        let mut d = DenseMatrix::zeros(total, total);
-        for i in 0..n {
-            d.row_mut(i).copy_from_slice(d_gamma.row(i));
-        }
-        eprintln!(
-            "RAW te diag {} {} ; node1 {} node2 {} ; d(1,0) {} d(2,0) {}",
-            d_gamma.get(0, 0),
-            d_gamma.get(n - 1, n - 1),
-            d_gamma.get(1, 1),
-            d_gamma.get(2, 2),
-            d_gamma.get(1, 0),
-            d_gamma.get(2, 0)
-        );
         for (k, &(a, wa, b, wb)) in data.to_nodes.iter().enumerate() {
             if nw == 0 {
                 break;
