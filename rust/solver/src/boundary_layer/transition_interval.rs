@@ -89,7 +89,7 @@ impl TransitionInterval<'_> {
     ///
     /// First choice, consistent with the interaction law at the stations: the edge velocity
     /// inside the interval is interpolated linearly towards the final ue at sb, found by a
-    /// fixed-point iteration on it (exact in one pass in direct mode), so the converged solution
+    /// secant iteration on it (exact in one pass in direct mode), so the converged solution
     /// does not depend on the interaction coefficient. Where that laminar part has no solution
     /// (prescribed deceleration of separated laminar flow: Goldstein's singularity), the laminar
     /// part is solved instead with the interaction law interpolated linearly between the two
@@ -109,6 +109,10 @@ impl TransitionInterval<'_> {
             interaction_coefficient: 0.0,
         };
         let mut ue_b = laminar_interacted.edge_velocity;
+        // Secant iteration on g(ue) = F(ue) − ue, F the ue at sb that the interval returns for an
+        // assumed ue (plain fixed-point steps until two points are known or when the secant
+        // degenerates).
+        let mut last: Option<(f64, f64)> = None;
         for _ in 0..30 {
             let (laminar_b, ok_b) = laminar_step(
                 a,
@@ -140,9 +144,8 @@ impl TransitionInterval<'_> {
             }
             let (state, ok_turb) =
                 self.turbulent_part(&at_transition, &laminar_b, s_tr, edges[1], settings);
-            let change = (state.edge_velocity - ue_b).abs();
-            ue_b = state.edge_velocity;
-            if change <= 1e-11 * ue_b.max(1.0) {
+            let gap = state.edge_velocity - ue_b;
+            if gap.abs() <= 1e-11 * ue_b.max(1.0) {
                 return TransitionOutcome {
                     state,
                     s: s_tr,
@@ -151,6 +154,19 @@ impl TransitionInterval<'_> {
                     converged: ok_turb,
                 };
             }
+            let fixed_point = state.edge_velocity;
+            let next = match last {
+                Some((ue_old, gap_old)) if (gap - gap_old).abs() > 1e-300 => {
+                    ue_b - gap * (ue_b - ue_old) / (gap - gap_old)
+                }
+                _ => fixed_point,
+            };
+            last = Some((ue_b, gap));
+            ue_b = if next.is_finite() && next > 0.0 {
+                next
+            } else {
+                fixed_point
+            };
         }
         // Well-posed fallback with the interpolated interaction law.
         let (s_tr, forced, amplification) = self.locate(laminar_interacted, settings, growth);
