@@ -156,6 +156,29 @@ fn howarth_linearly_retarded_flow_separates_near_0_12() {
 }
 
 #[test]
+fn laminar_march_converges_at_second_order() {
+    // The trapezoidal discretisation is second order (common practice: halving the steps divides
+    // the error by about 4, Richardson). Howarth's flow ue = 1 − x up to x = 0.1, stations
+    // clustered quadratically towards the leading edge.
+    let state_at_end = |n: usize| {
+        let s: Vec<f64> = (0..=n)
+            .map(|i| 1e-5 + 0.1 * (i as f64 / n as f64).powi(2))
+            .collect();
+        let ue: Vec<f64> = s.iter().map(|x| 1.0 - x).collect();
+        let last = *direct_march(&s, &ue, &laminar_settings(1e6))
+            .stations
+            .last()
+            .unwrap();
+        (last.theta, last.shape_factor)
+    };
+    let [coarse, medium, fine] = [200, 400, 800].map(state_at_end);
+    let theta_ratio = (coarse.0 - medium.0) / (medium.0 - fine.0);
+    let h_ratio = (coarse.1 - medium.1) / (medium.1 - fine.1);
+    eprintln!("convergence ratios: θ {theta_ratio:.2}, H {h_ratio:.2}");
+    assert!((3.5..4.6).contains(&theta_ratio) && (3.5..4.6).contains(&h_ratio));
+}
+
+#[test]
 fn flat_plate_wake_conserves_momentum_and_relaxes() {
     // Wake of a flat plate in uniform flow: with ue = 1 the momentum integral gives dθ/ds = 0, so
     // θ stays at θu + θl (momentum conservation, common practice) and H decays towards 1.
