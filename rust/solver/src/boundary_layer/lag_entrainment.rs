@@ -54,10 +54,13 @@ pub fn flat_plate_shape_factor(cf0: f64) -> f64 {
 /// Skin friction from Cf/Cf0 = 0.9/(H/H0 − 0.4) − 0.5 (GWB 1977). The denominator is kept above
 /// 0.05 (our guard; reached only for H far below H0 at very low Reθ).
 pub fn turbulent_skin_friction(h: f64, re_theta: f64) -> f64 {
-    let cf0 = flat_plate_skin_friction(re_theta);
+    skin_friction_from_flat_plate(h, flat_plate_skin_friction(re_theta))
+}
+
+/// Cf from the flat-plate value Cf0 at the same Reθ (the relation above).
+fn skin_friction_from_flat_plate(h: f64, cf0: f64) -> f64 {
     let h0 = flat_plate_shape_factor(cf0);
-    let denominator = (h / h0 - 0.4).max(0.05);
-    cf0 * (0.9 / denominator - 0.5)
+    cf0 * (0.9 / (h / h0 - 0.4).max(0.05) - 0.5)
 }
 
 /// Equilibrium pressure-gradient parameter (θ/ue due/ds)_EQ = (1.25/H)[Cf/2 − ((H − 1)/(6.432H))²]
@@ -111,10 +114,14 @@ impl TurbulentTerms {
         let ce = state.entrainment;
         let re_theta = reynolds * state.edge_velocity * theta;
         let cf0 = flat_plate_skin_friction(re_theta);
-        let cf = state_skin_friction(state, reynolds, wake);
+        let cf = if wake {
+            0.0
+        } else {
+            skin_friction_from_flat_plate(h, cf0)
+        };
         let h1 = entrainment_shape_factor(h);
         let equilibrium_gradient = equilibrium_pressure_gradient(h, cf);
-        let ce_eq = equilibrium_entrainment(h, cf);
+        let ce_eq = h1 * (0.5 * cf - (h + 1.0) * equilibrium_gradient);
         let tau_eq = shear_stress_coefficient(ce_eq, cf0);
         let tau = shear_stress_coefficient(ce, cf0);
         let f = lag_factor(ce, cf0);
