@@ -179,6 +179,17 @@ def max_temporal_growth(os_: OrrSommerfeld, re_theta: float) -> tuple[float, flo
     return float(np.exp(la)), float(fa)
 
 
+def max_temporal_growth_near(os_: OrrSommerfeld, re_theta: float, alpha_guess: float):
+    """Fastest temporal growth at Reθ, searched within a factor 3 of a neighbouring peak."""
+    return _golden_max_alpha(os_, re_theta, alpha_guess / 3.0, alpha_guess * 3.0)
+
+
+def _golden_max_alpha(os_, re_theta, lo, hi):
+    la, fa = _golden_max(lambda s: os_.least_stable(np.exp(s), re_theta).imag,
+                         np.log(lo), np.log(hi), 16)
+    return float(np.exp(la)), float(fa)
+
+
 def critical_re_theta(os_: OrrSommerfeld) -> tuple[float, float]:
     """Lowest Reθ with a temporally growing wave, and its wavenumber αθ (bisection in ln R)."""
     lo, hi = np.log(1.0), np.log(HIGHEST_RE_THETA)
@@ -213,7 +224,7 @@ def _neutral_alpha(os_: OrrSommerfeld, re_theta: float, unstable: float, stable:
 
 #: Smallest wavenumber αθ considered for spatial waves (wavelengths up to ~300 θ).
 ALPHA_FLOOR = 0.02
-#: Waves with a smaller group velocity (units of ue) are not converted by Gaster's relation.
+#: Waves with a smaller group velocity (units of ue) are given no spatial growth.
 GROUP_VELOCITY_FLOOR = 0.05
 
 
@@ -312,17 +323,6 @@ def envelope_for(profile: fs.Profile, points: int = COLLOCATION_POINTS) -> Envel
     slope = np.gradient(n_env, re_grid)
     slope[0] = 0.0
     return Envelope(profile.shape_factor, r0, alpha0, re_grid, n_env, slope)
-
-
-def max_temporal_growth_near(os_: OrrSommerfeld, re_theta: float, alpha_guess: float):
-    """Fastest temporal growth at Reθ, searched within a factor 3 of a neighbouring peak."""
-    return _golden_max_alpha(os_, re_theta, alpha_guess / 3.0, alpha_guess * 3.0)
-
-
-def _golden_max_alpha(os_, re_theta, lo, hi):
-    la, fa = _golden_max(lambda s: os_.least_stable(np.exp(s), re_theta).imag,
-                         np.log(lo), np.log(hi), 16)
-    return float(np.exp(la)), float(fa)
 
 
 def profiles_at(shape_factors: list[float]) -> list[fs.Profile]:

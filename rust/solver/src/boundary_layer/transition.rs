@@ -2,8 +2,8 @@
 //! Orr–Sommerfeld solutions of the Falkner–Skan profiles.
 //!
 //! `scripts/orr_sommerfeld_envelope.py` solves the Orr–Sommerfeld equation (Chebyshev collocation,
-//! Orszag 1971) for each Falkner–Skan profile, converts temporal to spatial rates by Gaster's
-//! transformation (1962), integrates the amplification of waves of fixed physical frequency along
+//! Orszag 1971) for each Falkner–Skan profile, continues the temporal eigenvalues to complex
+//! wavenumbers for spatial growth rates (Gaster's 1962 estimate as the first step), integrates the amplification of waves of fixed physical frequency along
 //! the similar flow and takes their envelope. It tabulates, per shape factor H, the critical
 //! Reθ,0(H) and the envelope slope dN/dReθ at ratios ρ = Reθ/Reθ,0 (`data/amplification_envelope.csv`).
 //! The march then uses (envelope method, as in similar flows ue ∝ x^m, Reθ = k√Re_x)
