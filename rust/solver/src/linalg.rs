@@ -120,8 +120,37 @@ impl LuFactors {
             let inv = 1.0 / lu[k * n + k];
             let (head, tail) = lu.split_at_mut((k + 1) * n);
             let pivot_row = &head[k * n + k + 1..k * n + n];
-            for r in 0..n - k - 1 {
-                let row = &mut tail[r * n..r * n + n];
+            // Rows below the pivot, four at a time: each pivot-row value is loaded once for
+            // four updates (the update is bound by loads and stores, not arithmetic).
+            let mut blocks = tail.chunks_exact_mut(4 * n);
+            for block in &mut blocks {
+                let (r0, rest) = block.split_at_mut(n);
+                let (r1, rest) = rest.split_at_mut(n);
+                let (r2, r3) = rest.split_at_mut(n);
+                let f = [r0[k] * inv, r1[k] * inv, r2[k] * inv, r3[k] * inv];
+                r0[k] = f[0];
+                r1[k] = f[1];
+                r2[k] = f[2];
+                r3[k] = f[3];
+                let (r0, r1, r2, r3) = (
+                    &mut r0[k + 1..],
+                    &mut r1[k + 1..],
+                    &mut r2[k + 1..],
+                    &mut r3[k + 1..],
+                );
+                let rows = r0
+                    .iter_mut()
+                    .zip(r1.iter_mut())
+                    .zip(r2.iter_mut())
+                    .zip(r3.iter_mut());
+                for ((((a, b), c), d), &p) in rows.zip(pivot_row) {
+                    *a -= f[0] * p;
+                    *b -= f[1] * p;
+                    *c -= f[2] * p;
+                    *d -= f[3] * p;
+                }
+            }
+            for row in blocks.into_remainder().chunks_exact_mut(n) {
                 let factor = row[k] * inv;
                 row[k] = factor;
                 if factor != 0.0 {

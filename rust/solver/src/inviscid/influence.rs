@@ -81,11 +81,54 @@ impl Panels {
     }
 }
 
-/// Scratch buffers for one evaluation point (node angles and log-distances).
+/// Scratch buffers for one evaluation point (offsets and squared distances to the nodes).
 #[derive(Debug, Clone, Default)]
 pub(crate) struct Scratch {
-    angle: Vec<f64>,
-    log_r2: Vec<f64>,
+    dx: Vec<f64>,
+    dy: Vec<f64>,
+    r2: Vec<f64>,
+}
+
+/// Threshold below which the short series below are exact to double precision
+/// (|z|¹⁷/17 < 1e-21 for |z| < 1/16).
+const SERIES_LIMIT: f64 = 0.0625;
+
+/// Angle from vector a to vector b given their cross and dot products, in (−π, π].
+/// Panels far from the point subtend small angles; there atan(z) = z(1 − z²/3 + z⁴/5 − …)
+/// with z = cross/dot is summed directly, which is exact to rounding and much cheaper than
+/// atan2 (Abramowitz & Stegun 4.4.42).
+#[inline]
+fn subtended_angle(cross: f64, dot: f64) -> f64 {
+    if dot > 0.0 && cross.abs() < SERIES_LIMIT * dot {
+        let z = cross / dot;
+        let z2 = z * z;
+        let poly = 1.0
+            - z2 * (1.0 / 3.0
+                - z2 * (1.0 / 5.0
+                    - z2 * (1.0 / 7.0
+                        - z2 * (1.0 / 9.0 - z2 * (1.0 / 11.0 - z2 * (1.0 / 13.0 - z2 / 15.0))))));
+        z * poly
+    } else {
+        cross.atan2(dot)
+    }
+}
+
+/// ½·ln(a/b) for positive a, b. When a ≈ b, ½ln(a/b) = atanh(w), w = (a − b)/(a + b), summed
+/// as w(1 + w²/3 + w⁴/5 + …) (Abramowitz & Stegun 4.6.22); otherwise with two logarithms.
+#[inline]
+fn half_log_ratio(a: f64, b: f64) -> f64 {
+    let w = (a - b) / (a + b);
+    if w.abs() < SERIES_LIMIT {
+        let w2 = w * w;
+        let poly = 1.0
+            + w2 * (1.0 / 3.0
+                + w2 * (1.0 / 5.0
+                    + w2 * (1.0 / 7.0
+                        + w2 * (1.0 / 9.0 + w2 * (1.0 / 11.0 + w2 * (1.0 / 13.0 + w2 / 15.0))))));
+        w * poly
+    } else {
+        0.5 * (a.ln() - b.ln())
+    }
 }
 
 /// Which kinds of singularity to evaluate, and the output coefficient arrays.
@@ -111,13 +154,15 @@ pub(crate) fn influence_at(
     out: Coefficients<'_>,
 ) {
     let nodes = panels.nodes();
-    scratch.angle.resize(nodes, 0.0);
-    scratch.log_r2.resize(nodes, 0.0);
+    scratch.dx.resize(nodes, 0.0);
+    scratch.dy.resize(nodes, 0.0);
+    scratch.r2.resize(nodes, 0.0);
     for j in 0..nodes {
         let dx = px - panels.x[j];
         let dy = py - panels.y[j];
-        scratch.angle[j] = dy.atan2(dx);
-        scratch.log_r2[j] = (dx * dx + dy * dy).max(1e-300).ln();
+        scratch.dx[j] = dx;
+        scratch.dy[j] = dy;
+        scratch.r2[j] = (dx * dx + dy * dy).max(1e-300);
     }
     let Coefficients {
         mut vortex,
@@ -127,21 +172,18 @@ pub(crate) fn influence_at(
         u.iter_mut().for_each(|c| *c = 0.0);
         v.iter_mut().for_each(|c| *c = 0.0);
     }
+    let (sdx, sdy, sr2) = (&scratch.dx, &scratch.dy, &scratch.r2);
     for k in 0..panels.count() {
-        let mut dtheta = scratch.angle[k + 1] - scratch.angle[k];
-        if dtheta > PI {
-            dtheta -= 2.0 * PI;
-        } else if dtheta < -PI {
-            dtheta += 2.0 * PI;
-        }
-        if on_panel == Some(k) {
-            dtheta = 0.0;
-        }
-        let log_ratio = 0.5 * (scratch.log_r2[k] - scratch.log_r2[k + 1]);
+        let (ax, ay, bx, by) = (sdx[k], sdy[k], sdx[k + 1], sdy[k + 1]);
+        let dtheta = if on_panel == Some(k) {
+            0.0
+        } else {
+            subtended_angle(ax * by - ay * bx, ax * bx + ay * by)
+        };
+        let log_ratio = half_log_ratio(sr2[k], sr2[k + 1]);
         let (tx, ty) = (panels.tx[k], panels.ty[k]);
         if let Some((u, v)) = vortex.as_mut() {
-            let dx = px - panels.x[k];
-            let dy = py - panels.y[k];
+            let (dx, dy) = (ax, ay);
             let xl = dx * tx + dy * ty;
             let yl = -dx * ty + dy * tx;
             let inv_l = 1.0 / panels.len[k];
@@ -169,6 +211,36 @@ pub(crate) fn influence_at(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn series_match_library_functions() {
+        for &(c, d) in &[
+            (1e-3, 1.0),
+            (-0.06, 1.0),
+            (0.0624, 1.0),
+            (0.3, 1.0),
+            (1.0, -2.0),
+            (-2.0, 0.5),
+        ] {
+            assert!(
+                (subtended_angle(c, d) - f64::atan2(c, d)).abs()
+                    < 2e-16 * (1.0 + f64::atan2(c, d).abs())
+            );
+        }
+        for &(a, b) in &[
+            (1.0, 1.0),
+            (1.1, 1.0),
+            (0.89, 1.0),
+            (3.0, 0.2),
+            (1e-8, 2e-8),
+        ] {
+            let exact = 0.5 * (f64::ln(a) - f64::ln(b));
+            assert!(
+                (half_log_ratio(a, b) - exact).abs() < 4e-16 * (1.0 + exact.abs()),
+                "{a} {b}"
+            );
+        }
+    }
 
     /// Numerical quadrature of the point-vortex / point-source kernels along a panel.
     fn quadrature(panels: &Panels, px: f64, py: f64, ga: f64, gb: f64, sigma: f64) -> (f64, f64) {
