@@ -124,9 +124,10 @@ def test_unknown_section_is_one_clear_error(tmp_path):
                          tmp_path, ExportOptions())
 
 
-def test_mesh_reopens_with_markers_and_first_cell(tmp_path):
+@pytest.mark.parametrize("sharp", [True, False], ids=["sharp-edge", "blunt-edge"])
+def test_mesh_reopens_with_markers_and_first_cell(tmp_path, sharp):
     gmsh = pytest.importorskip("gmsh")
-    shortlist, sections = _catalog_frames("s-0012", sharp=True)
+    shortlist, sections = _catalog_frames("s-0012", sharp=sharp)
     [folder] = export_shortlist(shortlist, sections, tmp_path, ExportOptions(mesh=True))
     case = json.loads((folder / "case.json").read_text())
     mesh = case["mesh"]
@@ -147,6 +148,10 @@ def test_mesh_reopens_with_markers_and_first_cell(tmp_path):
         strip = xyz[(np.abs(xyz[:, 0] - 0.5) < 0.02) & (xyz[:, 1] > 0)]
         heights = np.sort(strip[:, 1])
         assert heights[1] - heights[0] == pytest.approx(mesh["first_cell_height"], rel=0.02)
+        # no inverted or degenerate cell (scaled Jacobian > 0: gmsh's minSICN quality measure)
+        _, tags, _ = gmsh.model.mesh.getElements(2)
+        quality = gmsh.model.mesh.getElementQualities(np.concatenate(tags), "minSICN")
+        assert quality.min() > 0.0
     finally:
         gmsh.finalize()
     assert mesh["first_cell_height"] == pytest.approx(wall_spacing(8e5).first_cell_height)
