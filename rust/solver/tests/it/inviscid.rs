@@ -411,3 +411,42 @@ fn mass_defect_self_influence_is_positive() {
         );
     }
 }
+
+mod no_panic {
+    //! Property: whatever the (finite) geometry, the solver returns an error or finite results.
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(48))]
+        #[test]
+        fn solver_returns_error_or_finite_results(
+            center_x in -0.3f64..-0.02,
+            center_y in -0.2f64..0.2,
+            tau in 0.0f64..30.0,
+            points in 11usize..160,
+            noise in 0.0f64..0.02,
+            seed in 0u64..1_000_000,
+            alpha in -25.0f64..25.0,
+        ) {
+            let kt = KarmanTrefftz { center_x, center_y, trailing_edge_angle_deg: tau };
+            let mut section = kt.section(points).unwrap();
+            // Jitter the interior points (a simple linear congruential sequence).
+            let mut state = seed;
+            for k in 1..points - 1 {
+                state = state.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+                let r = ((state >> 11) as f64 / (1u64 << 53) as f64) - 0.5;
+                section.y[k] += noise * r;
+            }
+            if let Ok(solver) = PanelSolver::new(&section) {
+                let sol = solver.solve(alpha);
+                prop_assert!(sol.cl.is_finite() && sol.cm_c4.is_finite() && sol.cp.iter().all(|c| c.is_finite()));
+                let wake = solver.wake(alpha, 2.0, 12);
+                prop_assert!(wake.x.iter().chain(&wake.y).all(|v| v.is_finite()));
+                let d = solver.mass_defect_influence(&wake);
+                prop_assert!(d.data.iter().all(|v| v.is_finite()));
+                prop_assert!(solver.solve_compressible(alpha, 0.5).is_ok());
+            }
+        }
+    }
+}
