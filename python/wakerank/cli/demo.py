@@ -6,7 +6,6 @@ import time
 from pathlib import Path
 
 import typer
-from rich.console import Console
 
 from wakerank.cli import app
 from wakerank.cli._errors import ErrorsAsMessages
@@ -20,7 +19,7 @@ def demo_command(
     ),
 ) -> None:
     """Screen a survey aircraft's wing sections for the least drag at cl 0.5 (a demo)."""
-    from wakerank.cli.rank import print_shortlist
+    from wakerank.cli.rank import print_shortlist, table_console
     from wakerank.demo import DEMO_REYNOLDS, run_demo
     from wakerank.session import RunInterrupted
 
@@ -31,7 +30,7 @@ def demo_command(
         except RunInterrupted:
             typer.echo(f"interrupted: rerun `wakerank demo --out {out}` to resume", err=True)
             raise typer.Exit(130) from None
-    console = Console()
+    console = table_console()
     console.print(
         f"[bold]Survey-wing demo[/bold]: {result.summary.cases} cases in "
         f"{time.perf_counter() - started:.0f} s; ranked at Re = {DEMO_REYNOLDS:.3g}"

@@ -7,6 +7,7 @@ from typing import Any
 
 import typer
 from rich.console import Console
+from rich import box
 from rich.table import Table
 
 from wakerank.cli import app
@@ -76,9 +77,15 @@ def rank_command(
         if out is not None:
             out.parent.mkdir(parents=True, exist_ok=True)
             shortlist.write_parquet(out)
-    print_shortlist(shortlist, targets, Console())
+    print_shortlist(shortlist, targets, table_console())
     if out is not None:
         typer.echo(f"shortlist written to {out}")
+
+
+def table_console() -> Console:
+    """A console for tables: the terminal's width, or 120 columns when piped to a file."""
+    console = Console()
+    return console if console.is_terminal else Console(width=120)
 
 
 def _defaults_from_design(design: dict[str, Any]) -> dict[str, Any]:
@@ -104,51 +111,63 @@ def _parse_weights(text: str) -> list[float]:
 
 
 def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> None:
-    """The ranked table as rich renders it (the columns an engineer reads first)."""
+    """The ranked table as rich renders it (the columns an engineer reads first).
+
+    Reynolds number and transition get a column only when the rows differ in them;
+    otherwise they go into the title, which keeps the table readable in 80 columns.
+    """
     from wakerank.ranking import design_column
 
     several = len(targets) > 1
+    varying = {
+        name: shortlist[name].n_unique() > 1 if shortlist.height else False
+        for name in ("reynolds", "transition")
+    }
     title = "least drag at cl = " + ", ".join(f"{t:g}" for t in targets)
-    table = Table(title=title)
-    for header in (
-        "#",
-        "section",
-        "t/c",
-        "Re",
-        "transition",
-        "weighted cd" if several else "cd",
-        "L/D",
-        "cl_max",
-        "stall margin",
-    ):
-        table.add_column(header, justify="left" if header in ("section", "transition") else "right")
-    if several:
-        for t in targets:
-            table.add_column(f"cd @ {t:g}", justify="right")
-    table.add_column("cm_c4" if not several else "max |cm_c4|", justify="right")
+    if shortlist.height and not varying["reynolds"]:
+        title += f", Re = {_reynolds(shortlist['reynolds'][0])}"
+    if shortlist.height and not varying["transition"]:
+        title += f", {shortlist['transition'][0]} transition"
+    table = Table(title=title, box=box.SIMPLE_HEAD, padding=(0, 1), pad_edge=False)
+    headers = ["#", "section", "t/c"]
+    headers += ["Re"] if varying["reynolds"] else []
+    headers += ["transition"] if varying["transition"] else []
+    headers += ["mean cd"] if several else ["cd"]
+    headers += [f"cd@{t:g}" for t in targets] if several else []
+    headers += ["cl_max", "margin", "|cm|max"] if several else ["L/D", "cl_max", "margin", "cm_c4"]
+    rows = []
     for row in shortlist.iter_rows(named=True):
         cms = [row[design_column("cm_c4", t)] for t in targets]
-        cm = cms[0] if not several else max(abs(c) for c in cms)
-        margin = f"{row['stall_margin']:.2f}" + ("" if row["stall_reached"] else "+")
-        cells = [
-            str(row["rank"]),
-            str(row["label"]),
-            f"{row['thickness']:.3f}",
-            f"{row['reynolds']:.3g}",
-            str(row["transition"]),
-            f"{row['weighted_cd']:.5f}",
-            f"{row['l_over_d']:.1f}",
-            f"{row['cl_max']:.2f}",
-            margin,
-        ]
+        cells = [str(row["rank"]), str(row["label"]), f"{row['thickness']:.3f}"]
+        cells += [_reynolds(row["reynolds"])] if varying["reynolds"] else []
+        cells += [str(row["transition"])] if varying["transition"] else []
+        cells.append(f"{row['weighted_cd']:.5f}")
         if several:
             cells += [f"{row[design_column('cd', t)]:.5f}" for t in targets]
-        cells.append(f"{cm:.3f}")
+        else:
+            cells.append(f"{row['l_over_d']:.1f}")
+        margin = f"{row['stall_margin']:.2f}" + ("" if row["stall_reached"] else "+")
+        cm = f"{max(abs(c) for c in cms):.3f}" if several else f"{cms[0]:.3f}"
+        cells += [f"{row['cl_max']:.2f}", margin, cm]
+        rows.append(cells)
+    for i, header in enumerate(headers):
+        left = header in ("section", "transition")
+        widest = max([len(header)] + [len(r[i]) for r in rows])
+        table.add_column(header, justify="left" if left else "right",
+                         min_width=min(widest, 10) if left else widest, no_wrap=not left)
+    for cells in rows:
         table.add_row(*cells)
     console.print(table)
     if shortlist.height == 0:
         console.print("no section meets the constraints at these conditions")
     elif not all(shortlist["stall_reached"]):
         console.print(
-            "+ cl_max not reached within the angle range: the stall margin is a lower bound"
+            "margin = cl_max - design cl; + : cl_max not reached within the converged angles, "
+            "so the margin is a lower bound"
         )
+
+
+def _reynolds(value: float) -> str:
+    """Compact Reynolds number: 1.2e6, 8e5."""
+    mantissa, exponent = f"{value:.2g}".split("e") if "e" in f"{value:.2g}" else (f"{value:g}", "")
+    return f"{mantissa}e{int(exponent)}" if exponent else mantissa
