@@ -25,9 +25,16 @@ def bench_campaign_command(
         f"campaign: {figures['cases']:.0f} cases ({figures['points']:.0f} points) with "
         f"{figures['workers']:.0f} worker(s) in {figures['wall_seconds']:.2f} s: "
         f"{figures['cases_per_second']:.2f} cases/s, "
-        f"{100 * figures['outside_core_share']:.1f}% of the time outside the core, "
         f"{100 * figures['converged_share']:.0f}% of points converged"
     )
+    if figures["workers"] == 1:
+        typer.echo(f"outside the core: {100 * figures['outside_core_share']:.1f}% of the wall time")
+    else:
+        typer.echo(
+            f"worker time not spent in the core (outside the core, waiting for the last chunks, "
+            f"other load): {100 * figures['outside_core_share']:.1f}%; run with --workers 1 for "
+            "the share outside the core alone"
+        )
 
 
 @bench_app.command("rank")
