@@ -46,6 +46,20 @@ class ExportOptions:
     farfield_radius: float = 100.0
     growth_ratio: float = 1.2
 
+    def check(self) -> None:
+        """Reject bad options before anything is written, naming the option."""
+        from wakerank.mesh import MIN_FARFIELD_RADIUS
+
+        if self.points is not None and self.points < 16:
+            raise InputError(f"--points {self.points}: need at least 16 points around the section")
+        if not (self.y_plus > 0.0) or not math.isfinite(self.y_plus):
+            raise InputError(f"--y-plus {self.y_plus}: the target y+ must be a positive number")
+        if self.mesh and not (self.farfield_radius >= MIN_FARFIELD_RADIUS):
+            raise InputError(
+                f"--farfield {self.farfield_radius:g}: the far field must be at least "
+                f"{MIN_FARFIELD_RADIUS:g} chords away"
+            )
+
 
 def case_schema() -> dict[str, Any]:
     """The JSON Schema of case files, as shipped in the package."""
@@ -310,11 +324,16 @@ def export_shortlist(
     sections table); the design points come from the shortlist itself (see
     `design_points_from_shortlist`), so a shortlist ranked at any design cl exports.
     """
+    options.check()
     if "section_id" not in shortlist.columns:
         raise InputError("shortlist has no 'section_id' column")
     ids = shortlist["section_id"].unique(maintain_order=True).to_list()
     if not ids:
         raise InputError("shortlist is empty: nothing to export")
+    missing = set(ids) - set(sections["section_id"].to_list())
+    if missing:
+        shown = ", ".join(sorted(missing)[:5])
+        raise InputError(f"section(s) {shown} of the shortlist are not in the catalog")
     points = design_points_from_shortlist(shortlist)
     folders = []
     for section_id in ids:

@@ -176,6 +176,21 @@ def test_points_option_repanels_the_coordinates(tmp_path):
         export_shortlist(shortlist, sections, tmp_path, ExportOptions(points=8))
 
 
+@pytest.mark.parametrize(
+    ("options", "message"),
+    [
+        (ExportOptions(points=8), "--points 8"),
+        (ExportOptions(y_plus=-1.0), "--y-plus"),
+        (ExportOptions(mesh=True, farfield_radius=10.0), "--farfield 10"),
+    ],
+)
+def test_bad_options_write_nothing(tmp_path, options, message):
+    shortlist, sections = _catalog_frames("s-0012", sharp=True)
+    with pytest.raises(InputError, match=message):
+        export_shortlist(shortlist, sections, tmp_path / "out", options)
+    assert not (tmp_path / "out").exists()
+
+
 def test_coincident_wall_points_are_one_geometry_error(tmp_path):
     from wakerank.errors import GeometryError
     from wakerank.mesh import MeshSettings, build_mesh

@@ -44,7 +44,6 @@ def export_command(
             mesh=mesh,
             farfield_radius=farfield,
         )
-        to.mkdir(parents=True, exist_ok=True)
         folders = export_shortlist(ranked, sections, to, options)
     for folder in folders:
         typer.echo(f"wrote {folder}")
