@@ -329,11 +329,15 @@ def map_figure(
     if bad.height:
         axes.scatter(bad[x].to_numpy(), bad[y].to_numpy(), marker="x", color="0.4",
                      label="does not reach this cl on a converged polar")
+    for values, set_limits in ((best[x], axes.set_xlim), (best[y], axes.set_ylim)):
+        low, high = float(values.min()), float(values.max())  # type: ignore[arg-type]
+        pad = 0.06 * (high - low) if high > low else max(abs(high), 1e-3) * 0.1
+        set_limits(low - pad, high + pad)  # markers on the border of the family stay whole
     axes.ticklabel_format(useOffset=False)
     axes.set_xlabel(parameter_label(x))
     axes.set_ylabel(parameter_label(y))
     axes.grid(True, alpha=0.3)
-    axes.legend(fontsize="small", loc="best")
+    axes.legend(fontsize="small", loc="upper center", bbox_to_anchor=(0.5, -0.12), ncol=3)
     rows = design.filter(_near("reynolds", reynolds))
     axes.set_title(
         f"cd at cl = {design_cl:g}, "
