@@ -57,6 +57,7 @@ def polar_figure(
     *,
     reynolds: float,
     transition: str | None = None,
+    design_cl: Sequence[float] = (),
 ) -> Figure:
     """Drag polars and lift curves of the named sections at one condition."""
     opened = _open(catalog)
@@ -64,7 +65,8 @@ def polar_figure(
     ids = chosen["section_id"].to_list()
     points = opened.points.filter(pl.col("section_id").is_in(ids)).collect()
     labels = dict(chosen.iter_rows())
-    return plots.polar_figure(points, ids, reynolds=reynolds, transition=transition, labels=labels)
+    return plots.polar_figure(points, ids, reynolds=reynolds, transition=transition, labels=labels,
+                              design_cl=design_cl)
 
 
 def section_figure(

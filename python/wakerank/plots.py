@@ -125,10 +125,12 @@ def polar_figure(
     reynolds: float,
     transition: str | None = None,
     labels: dict[str, str] | None = None,
+    design_cl: Sequence[float] = (),
 ) -> Figure:
     """Drag polar (cl over cd) and lift curve (cl over alpha) of each section at one condition.
 
-    Only converged points are drawn; a non-converged angle leaves a gap in the line.
+    Only converged points are drawn; a non-converged angle leaves a gap in the line. Each
+    `design_cl` is marked by a dashed line.
     """
     if not section_ids:
         raise InputError("name at least one section id to plot")
@@ -151,6 +153,10 @@ def polar_figure(
         lift_axes.plot(alpha, cl, marker=".", color=line.get_color(), label=label)
     if missing:
         raise InputError(f"no polar at this condition for section(s) {', '.join(missing)}")
+    for k, target in enumerate(design_cl):
+        for axes in (drag_axes, lift_axes):
+            axes.axhline(target, color="0.4", ls="--", lw=0.8,
+                         label="design cl" if k == 0 else None)
     drag_axes.set_xlabel("drag coefficient cd (-)")
     drag_axes.set_ylabel("lift coefficient cl (-)")
     drag_axes.set_title("drag polar")

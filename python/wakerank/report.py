@@ -174,7 +174,7 @@ def build_report(
         ids = here["section_id"].unique(maintain_order=True).to_list()[:POLAR_SECTIONS]
         setting = here["transition"][0] if "transition" in here.columns else None
         figure = polar_figure(points, ids, reynolds=float(reynolds), transition=setting,
-                              labels=labels)
+                              labels=labels, design_cl=[design_cl])
         polar_html.append(_image(figure_to_data_uri(figure), f"polars at Re {reynolds:g}"))
     map_html = []
     for x, y in map_axes:

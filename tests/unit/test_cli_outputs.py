@@ -27,7 +27,7 @@ def invoke(*args):
 def test_plot_polar_by_id_and_label(catalog, tmp_path):
     out = tmp_path / "polar.png"
     result = invoke("plot", "polar", catalog, "--sections", "sec01,test section 4",
-                    "--sections", "sec07", "--reynolds", "8e5", "--out", out)
+                    "--sections", "sec07", "--reynolds", "8e5", "--cl", "0.55", "--out", out)
     assert result.exit_code == 0, result.output
     assert png_size(out) == EXPECTED_PIXELS
 

@@ -32,6 +32,7 @@ def polar_command(
     sections: list[str] = typer.Option(..., "--sections", help="Section ids or labels (repeat, or separate by commas)."),
     reynolds: float = typer.Option(..., "--reynolds", help="Reynolds number of the polars."),
     transition: str | None = typer.Option(None, "--transition", help=_TRANSITION_HELP),
+    cl: list[float] = typer.Option([], "--cl", help="Mark a design lift coefficient (repeatable)."),
     out: Path | None = typer.Option(None, "--out", help="PNG file [default: polar-Re<Re>.png]."),
 ) -> None:
     """Drag polars (cl over cd) and lift curves (cl over alpha) of several sections."""
@@ -39,7 +40,7 @@ def polar_command(
 
     with ErrorsAsMessages():
         figure = catalog_plots.polar_figure(catalog, _split(sections), reynolds=reynolds,
-                                            transition=transition)
+                                            transition=transition, design_cl=cl)
         _save(figure, out or Path(catalog_plots.default_output("polar", Re=f"{reynolds:g}")))
 
 
