@@ -17,6 +17,7 @@ from wakerank.errors import (
     WakerankError,
 )
 from wakerank.sections import Section
+from wakerank.viscous import boundary_layer, solve_for_cl
 
 __version__: str = _core_version()
 
@@ -31,6 +32,8 @@ __all__ = [
     "Section",
     "analyze",
     "surface",
+    "solve_for_cl",
+    "boundary_layer",
     "WakerankError",
     "GeometryError",
     "InputError",

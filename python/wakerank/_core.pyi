@@ -48,3 +48,54 @@ def inviscid_surface_arrays(
 def karman_trefftz_exact(
     center_x: float, center_y: float, trailing_edge_angle_deg: float, n_points: int, alpha_deg: float
 ) -> tuple[str, _Array, _Array, _Array, float]: ...
+
+# Viscous analysis (rust/bindings/src/viscous.rs); each releases the GIL while it runs.
+def viscous_sweep(
+    name: str,
+    x: _Array,
+    y: _Array,
+    alpha_deg: _Array,
+    *,
+    reynolds: float,
+    mach: float = 0.0,
+    n_factor: float = 9.0,
+    turbulence_intensity: float | None = None,
+    trip_upper: float | None = None,
+    trip_lower: float | None = None,
+    panels: int = 160,
+) -> dict[str, _Array]: ...
+def viscous_solve_for_cl(
+    name: str,
+    x: _Array,
+    y: _Array,
+    cl: float,
+    *,
+    reynolds: float,
+    mach: float = 0.0,
+    n_factor: float = 9.0,
+    turbulence_intensity: float | None = None,
+    trip_upper: float | None = None,
+    trip_lower: float | None = None,
+    panels: int = 160,
+) -> dict[str, _Array]: ...
+def viscous_boundary_layer(
+    name: str,
+    x: _Array,
+    y: _Array,
+    alpha_deg: float,
+    *,
+    reynolds: float,
+    mach: float = 0.0,
+    n_factor: float = 9.0,
+    turbulence_intensity: float | None = None,
+    trip_upper: float | None = None,
+    trip_lower: float | None = None,
+    panels: int = 160,
+) -> dict[str, _Array | bool]: ...
+def viscous_batch(
+    sections: list[tuple[str, _Array, _Array]],
+    conditions: list[dict[str, float | int | None]],
+    alpha_deg: _Array,
+    threads: int = 0,
+) -> dict[str, _Array]: ...
+def flat_plate_drag(reynolds: float, *, tripped: bool = False, n_factor: float = 9.0) -> float: ...

@@ -1,4 +1,5 @@
-"""Section analysis as polars tables: :func:`analyze` (one row per angle) and :func:`surface`.
+"""Section analysis as polars tables: :func:`analyze` (one row per angle) and :func:`surface`;
+the viscous :func:`solve_for_cl` and :func:`boundary_layer` live in ``wakerank.viscous``.
 
 Without a Reynolds number the analysis is inviscid: the compiled linear-vortex panel method
 (Katz & Plotkin, *Low-Speed Aerodynamics*, §11.4) with the Kutta condition and, for mach > 0,
@@ -160,8 +161,10 @@ def _analyze_viscous(
     reynolds: float,
     **viscous_options: Any,
 ) -> pl.DataFrame:
-    """The viscous analysis (integral boundary layer + far-wake drag): not in this build yet."""
-    raise InputError("viscous analysis (reynolds=...) is not available in this build yet")
+    """The viscous analysis (panel method + integral boundary layer, far-wake drag)."""
+    from wakerank.viscous import viscous_polar
+
+    return viscous_polar(name, x, y, alphas, panels, mach, reynolds, **viscous_options)
 
 
 def analyze(
@@ -180,6 +183,16 @@ def analyze(
     critical_mach_reached, mach, panels. ``panels=None`` uses the section's own points as
     panel nodes. Raises :class:`wakerank.InputError` for out-of-range arguments and
     :class:`wakerank.GeometryError` for unusable geometry.
+
+    With a Reynolds number (1e4 to 1e8) the analysis is viscous: the panel method coupled to
+    the integral boundary layer (quasi-simultaneous interaction), drag from the far wake.
+    Options: ``n_factor`` (critical N, 1–20, default 9), ``turbulence_intensity`` (a fraction,
+    0.0001–0.05, turned into N by Mack's relation), ``trip_upper`` / ``trip_lower`` (forced
+    transition at x/c in [0, 1]); mach 0–0.7. Columns: alpha_deg, cl, cd (far wake, 2θ∞/c),
+    cd_squire_young, cd_friction, cd_pressure, cm_c4, cp_min, transition_upper,
+    transition_lower (x/c), separation_upper, separation_lower (x/c of turbulent separation,
+    null when none), converged, iterations, residual, then l_over_d, reynolds, mach,
+    n_factor, panels. Rows that did not converge are kept with ``converged`` false.
     """
     alphas = parse_alpha(alpha_deg)
     mach_value = check_mach(mach)

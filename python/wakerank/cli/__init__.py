@@ -38,6 +38,7 @@ def _root(
 # Command modules register themselves on `app` when imported (one line each).
 from wakerank.cli import analyze as _analyze  # noqa: E402,F401
 from wakerank.cli import bench as _bench  # noqa: E402,F401
+from wakerank.cli import validate as _validate  # noqa: E402,F401
 from wakerank.cli import export as _export  # noqa: E402,F401
 from wakerank.cli import plot as _plot  # noqa: E402,F401
 from wakerank.cli import report as _report  # noqa: E402,F401

@@ -49,6 +49,20 @@ def load_section(spec: str) -> Any:
 
 OUTPUT_SUFFIXES = (".parquet", ".csv")
 
+#: Columns of a viscous polar printed on screen (--out writes them all).
+VISCOUS_SHOWN = [
+    "alpha_deg",
+    "cl",
+    "cd",
+    "cd_squire_young",
+    "cd_friction",
+    "cd_pressure",
+    "cm_c4",
+    "transition_upper",
+    "transition_lower",
+    "converged",
+]
+
 
 def check_output(out: Optional[Path]) -> None:
     """Fail before any work when --out has a suffix we cannot write."""
@@ -76,7 +90,9 @@ def print_table(table: pl.DataFrame, title: str) -> None:
             if isinstance(value, bool):
                 cells.append("yes" if value else "no")
             elif isinstance(value, float):
-                cells.append(f"{value:.4f}")
+                cells.append(f"{value:.5f}" if abs(value) < 0.1 else f"{value:.4f}")
+            elif value is None:
+                cells.append("—")
             else:
                 cells.append(str(value))
         view.add_row(*cells)
@@ -89,7 +105,8 @@ def run_analyze(spec: str, alpha: str, options: AnalyzeOptions, out: Optional[Pa
     section = load_section(spec)
     table = wr.analyze(section, alpha_deg=alpha, **options.as_kwargs())
     kind = "viscous" if options.viscous else "inviscid"
-    print_table(table, f"{getattr(section, 'name', spec)} ({kind}, {options.panels} panels)")
+    shown = table.select(VISCOUS_SHOWN) if options.viscous else table
+    print_table(shown, f"{getattr(section, 'name', spec)} ({kind}, {options.panels} panels)")
     if out is not None:
         write_table(table, out)
         typer.echo(f"wrote {len(table)} rows to {out}")
@@ -100,9 +117,42 @@ def analyze_command(
     spec: str = typer.Argument(..., help="Section: a coordinate file, or a family spec such as 2412."),
     alpha: str = typer.Option("-4:12:1", "--alpha", help="Angles: start:stop:step, a,b,c or one value (degrees)."),
     panels: int = typer.Option(160, "--panels", help="Panels along the surface."),
-    mach: float = typer.Option(0.0, "--mach", help="Free-stream Mach number (Karman-Tsien), 0 <= M < 0.9."),
+    mach: float = typer.Option(0.0, "--mach", help="Free-stream Mach number (Karman-Tsien), 0 <= M < 0.9 (viscous: <= 0.7)."),
+    re: Optional[float] = typer.Option(None, "--re", help="Chord Reynolds number (1e4-1e8): viscous analysis with drag."),
+    n_factor: Optional[float] = typer.Option(None, "--n-factor", help="Critical N-factor of free transition (1-20, default 9)."),
+    tu: Optional[float] = typer.Option(None, "--tu", help="Free-stream turbulence intensity as a fraction (0.0001-0.05), via Mack's relation."),
+    trip_upper: Optional[float] = typer.Option(None, "--trip-upper", help="Forced transition on the upper surface at this x/c."),
+    trip_lower: Optional[float] = typer.Option(None, "--trip-lower", help="Forced transition on the lower surface at this x/c."),
     out: Optional[Path] = typer.Option(None, "--out", help="Also write the table (.parquet or .csv)."),
 ) -> None:
-    """Polar of one section: lift, moment and minimum pressure at each angle."""
+    """Polar of one section: lift, moment and minimum pressure at each angle; with --re also
+    the drag (far wake, Squire-Young, friction, pressure), transition and separation."""
     with ErrorsAsMessages():
-        run_analyze(spec, alpha, AnalyzeOptions(panels=panels, mach=mach), out)
+        viscous = viscous_options(re, n_factor, tu, trip_upper, trip_lower)
+        run_analyze(spec, alpha, AnalyzeOptions(panels=panels, mach=mach, viscous=viscous), out)
+
+
+def viscous_options(
+    re: Optional[float],
+    n_factor: Optional[float],
+    tu: Optional[float],
+    trip_upper: Optional[float],
+    trip_lower: Optional[float],
+) -> dict[str, Any]:
+    """The viscous keyword arguments of :func:`wakerank.analyze` from the CLI options; the
+    transition options need --re."""
+    given = {
+        "n_factor": n_factor,
+        "turbulence_intensity": tu,
+        "trip_upper": trip_upper,
+        "trip_lower": trip_lower,
+    }
+    chosen = {key: value for key, value in given.items() if value is not None}
+    if re is None:
+        if chosen:
+            flags = {"n_factor": "--n-factor", "turbulence_intensity": "--tu",
+                     "trip_upper": "--trip-upper", "trip_lower": "--trip-lower"}
+            names = ", ".join(flags[k] for k in chosen)
+            raise wr.InputError(f"{names}: transition options need a Reynolds number (--re)")
+        return {}
+    return {"reynolds": re, **chosen}

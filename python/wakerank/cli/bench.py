@@ -24,3 +24,37 @@ def bench_inviscid(
             raise ValueError("--sections and --repeat must be at least 1")
         for line in run(sections=sections, repeat=repeat).lines():
             typer.echo(line)
+
+
+@bench_app.command("viscous")
+def bench_viscous(
+    threads: int = typer.Option(1, "--threads", help="Worker threads (1 gives the per-core figure)."),
+    repeat: int = typer.Option(1, "--repeat", help="Repeat each measurement and keep the fastest."),
+) -> None:
+    """Converged viscous operating points per second on α sweeps, and the cost vs panel count."""
+    from rich.console import Console
+    from rich.table import Table
+
+    from wakerank.bench.viscous import ALPHAS, PANEL_COUNTS, REYNOLDS, SECTIONS, run_sweeps
+    from wakerank.cli._errors import ErrorsAsMessages
+
+    with ErrorsAsMessages():
+        console = Console()
+        console.print(
+            f"sweeps: NACA {', '.join(SECTIONS)} × Re {', '.join(f'{r:.0e}' for r in REYNOLDS)} × "
+            f"α {ALPHAS[0]:g}..{ALPHAS[-1]:g}° ({len(ALPHAS)} angles), {threads} thread(s)"
+        )
+        table = Table(title="viscous analysis cost")
+        for column in ("panels", "points", "converged", "seconds", "converged points/s", "ms/point"):
+            table.add_column(column, justify="right")
+        for panels in PANEL_COUNTS:
+            result = run_sweeps(panels=panels, threads=threads, repeat=repeat)
+            table.add_row(
+                str(panels),
+                str(result.points),
+                str(result.converged),
+                f"{result.seconds:.2f}",
+                f"{result.converged_per_second:.0f}",
+                f"{result.ms_per_point:.2f}",
+            )
+        console.print(table)

@@ -8,6 +8,7 @@ use pyo3::prelude::*;
 mod errors;
 mod inviscid;
 mod section;
+mod viscous;
 
 /// Version of the compiled core.
 #[pyfunction]
@@ -20,5 +21,6 @@ fn _core(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(core_version, m)?)?;
     inviscid::register(m)?;
     section::register(m)?;
+    viscous::register(m)?;
     Ok(())
 }

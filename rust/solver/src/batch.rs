@@ -120,3 +120,56 @@ pub fn analyze_inviscid_batch(
             .collect()
     })
 }
+
+/// One row of a viscous batch: which section and condition it belongs to, and its polar row.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ViscousBatchRow {
+    /// Index into the batch's sections.
+    pub section_index: usize,
+    /// Index into the batch's conditions.
+    pub condition_index: usize,
+    /// The polar row.
+    pub row: crate::coupling::ViscousRow,
+}
+
+/// Viscous polars of many sections × conditions over one α sweep, in parallel over the
+/// (section, condition) cases on `threads` threads (0: the `RAYON_NUM_THREADS` environment
+/// variable, else the core count).
+///
+/// Each case's sweep runs on one thread with its own warm starts, so the result is identical
+/// for any thread count or case order. Rows come back ordered by section, condition, angle.
+/// Bad conditions fail the whole batch up front (`SolverError::Input`); a section the panel
+/// method cannot use fails it with that section's `SolverError::Geometry`.
+pub fn viscous_batch(
+    sections: &[crate::geometry::Section],
+    conditions: &[crate::coupling::ViscousSettings],
+    alpha_deg: &[f64],
+    threads: usize,
+) -> crate::error::Result<Vec<ViscousBatchRow>> {
+    for condition in conditions {
+        condition.validate()?;
+    }
+    let cases: Vec<(usize, usize)> = (0..sections.len())
+        .flat_map(|s| (0..conditions.len()).map(move |c| (s, c)))
+        .collect();
+    let pool = thread_pool(if threads == 0 { None } else { Some(threads) })?;
+    let results: Vec<crate::error::Result<Vec<crate::coupling::ViscousRow>>> = pool.install(|| {
+        cases
+            .par_iter()
+            .map(|&(s, c)| {
+                crate::coupling::analyze_viscous(&sections[s], alpha_deg, &conditions[c])
+            })
+            .collect()
+    });
+    let mut rows = Vec::with_capacity(cases.len() * alpha_deg.len());
+    for (&(s, c), result) in cases.iter().zip(results) {
+        for row in result? {
+            rows.push(ViscousBatchRow {
+                section_index: s,
+                condition_index: c,
+                row,
+            });
+        }
+    }
+    Ok(rows)
+}

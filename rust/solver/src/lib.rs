@@ -12,7 +12,7 @@ pub mod geometry;
 pub mod inviscid;
 pub mod linalg;
 
-pub use batch::{analyze_inviscid, analyze_inviscid_batch};
+pub use batch::{analyze_inviscid, analyze_inviscid_batch, viscous_batch, ViscousBatchRow};
 pub use error::{Result, SolverError};
 pub use geometry::Section;
 pub use inviscid::{InviscidSolution, PanelSolver, Wake};

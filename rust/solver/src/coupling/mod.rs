@@ -11,10 +11,17 @@
 //! solution agree. See `iteration` for the loop and its residual, `forces` for the drag
 //! bookkeeping and docs/method.md for the equations.
 
+mod anderson;
+mod flat_plate;
 mod forces;
+mod iteration;
+mod model;
 mod settings;
 mod stagnation;
+mod sweep;
+mod target_cl;
 
+pub use flat_plate::flat_plate_drag;
 pub use forces::{far_wake_drag, friction_drag, integrate_pressure, squire_young, PressureForces};
 pub use settings::{
     ViscousSettings, MACH_RANGE, N_FACTOR_RANGE, PANEL_RANGE, REYNOLDS_RANGE, TRIP_RANGE,
@@ -24,6 +31,8 @@ pub use stagnation::{
     arc_length_at_x, locate_stagnation, split_surface, x_at_arc_length, SideNodes, StagnationPoint,
     SurfaceSplit,
 };
+pub use sweep::{analyze_viscous, boundary_layer_stations, ViscousAnalysis};
+pub use target_cl::solve_for_cl;
 
 /// One viscous operating point: the row of a polar.
 #[derive(Debug, Clone, PartialEq)]

@@ -12,8 +12,8 @@ pub const N_FACTOR_RANGE: (f64, f64) = (1.0, 20.0);
 pub const TURBULENCE_INTENSITY_RANGE: (f64, f64) = (1.0e-4, 0.05);
 /// Allowed trip positions, fraction of chord.
 pub const TRIP_RANGE: (f64, f64) = (0.0, 1.0);
-/// Allowed panel counts.
-pub const PANEL_RANGE: (usize, usize) = (40, 1000);
+/// Allowed panel counts (0 keeps the section's own points as panel nodes).
+pub const PANEL_RANGE: (usize, usize) = (20, 2000);
 
 /// Everything a viscous analysis needs besides the section and the angle of attack.
 ///
@@ -34,7 +34,7 @@ pub struct ViscousSettings {
     pub trip_upper: Option<f64>,
     /// Forced transition on the lower surface at this x/c.
     pub trip_lower: Option<f64>,
-    /// Number of surface panels after re-panelling (default 160).
+    /// Number of surface panels after re-panelling (default 160; 0 keeps the section's points).
     pub panels: usize,
     /// Cap on the outer viscous–inviscid iterations (default 80): nothing loops forever.
     pub max_iterations: usize,
@@ -79,9 +79,9 @@ impl ViscousSettings {
         if let Some(trip) = self.trip_lower {
             check_range("trip_lower", trip, TRIP_RANGE)?;
         }
-        if self.panels < PANEL_RANGE.0 || self.panels > PANEL_RANGE.1 {
+        if self.panels != 0 && (self.panels < PANEL_RANGE.0 || self.panels > PANEL_RANGE.1) {
             return Err(SolverError::input(format!(
-                "panels = {} is outside the allowed range {}..={}",
+                "panels = {} is outside the allowed range {}..={} (or 0 for the section's own points)",
                 self.panels, PANEL_RANGE.0, PANEL_RANGE.1
             )));
         }
@@ -108,9 +108,22 @@ impl ViscousSettings {
         Ok(())
     }
 
+    /// The critical N-factor actually used: from Mack's relation when a turbulence intensity
+    /// is given (N = −8.43 − 2.4 ln Tu, Mack, AGARD CP-224, 1977), clipped to the allowed
+    /// N-factor range because the relation leaves its validity (0.1 %–2 %) at both ends.
+    pub fn effective_n_critical(&self) -> f64 {
+        match self.turbulence_intensity {
+            Some(tu) => {
+                let n = crate::boundary_layer::transition::critical_n_from_turbulence_intensity(tu);
+                n.clamp(N_FACTOR_RANGE.0, N_FACTOR_RANGE.1)
+            }
+            None => self.n_critical,
+        }
+    }
+
     /// Number of wake nodes used.
     pub fn wake_node_count(&self) -> usize {
-        self.wake_nodes.unwrap_or((self.panels / 4).max(24))
+        self.wake_nodes.unwrap_or((self.panels / 4).max(40))
     }
 }
 
@@ -119,8 +132,19 @@ fn check_range(name: &str, value: f64, (lo, hi): (f64, f64)) -> Result<()> {
         Ok(())
     } else {
         Err(SolverError::input(format!(
-            "{name} = {value} is outside the allowed range {lo:e} to {hi:e}"
+            "{name} = {value} is outside the allowed range {} to {}",
+            readable(lo),
+            readable(hi)
         )))
+    }
+}
+
+/// A range bound as people write it: 1e4, 0.7, 1e-4.
+fn readable(value: f64) -> String {
+    if value != 0.0 && (value.abs() >= 1e4 || value.abs() < 1e-3) {
+        format!("{value:e}")
+    } else {
+        format!("{value}")
     }
 }
 

@@ -1,6 +1,7 @@
 //! Integration tests of the public API of wakerank-solver (one test binary).
 
 mod boundary_layer;
+mod coupling;
 mod geometry;
 
 #[test]

@@ -1,0 +1,293 @@
+//! The outer viscous–inviscid iteration with the quasi-simultaneous interaction law.
+//!
+//! Each pass (Veldman, J. Eng. Math. 15, 1981; Coenen, Veldman & Patrianakos 2000):
+//! 1. speeds from the current mass defect, q = q_inv + D·m; the stagnation point is where q
+//!    changes sign, and the surface is split there into the upper and lower layers;
+//! 2. every surface and wake node gets the external part of its edge speed,
+//!    E_i = ue_inv,i + Σ_{j≠i} D_ij m_j, and the interaction coefficient c_i = D_ii, so the
+//!    march solves ue_i = E_i + c_i ue_i δ*_i together with its own equations (c_i > 0: a
+//!    growing displacement raises the local speed, which is what keeps separation well posed);
+//! 3. both surfaces are marched, then the wake with E updated from the new surface defects
+//!    (a Gauss–Seidel sweep);
+//! 4. the residual is the largest mismatch between the edge speed the march settled on and the
+//!    speed the panel method gives for the march's own mass defect,
+//!    r = max_i |ue_i − (ue_inv,i + Σ_j D_ij m_j)| in units of U∞, over surface and wake;
+//! 5. m is relaxed towards the new defects (factor ω, halved when r grows, regrown when it
+//!    falls) and the pass repeats until r < tolerance or the iteration cap is reached.
+
+use crate::boundary_layer::laminar_closure::FalknerSkanClosure;
+use crate::boundary_layer::transition::OrrSommerfeldEnvelope;
+use crate::boundary_layer::{
+    march_surface, march_wake, MarchSettings, SideInput, SideSolution, Station,
+};
+use crate::error::{Result, SolverError};
+
+use super::anderson::AndersonMixer;
+use super::model::CaseModel;
+use super::settings::ViscousSettings;
+use super::stagnation::{
+    arc_length_at_x, locate_stagnation, split_surface, SideNodes, SurfaceSplit,
+};
+
+/// Largest c·δ* allowed in the interaction law ue = E + c·ue·δ*: on the short panels at the
+/// trailing edge D_ii reaches several hundred per chord, c·δ* approaches one and the local law
+/// ue(1 − cδ*) = E turns nearly singular. Capping c (with δ* of the previous iterate) keeps
+/// every march well posed; it does not change the converged solution, because E carries the
+/// rest of the influence.
+const MAX_COEFFICIENT_TIMES_DISPLACEMENT: f64 = 0.8;
+/// Floor on the speed used in that cap (near the stagnation point).
+const MIN_CAP_SPEED: f64 = 0.05;
+/// Differences kept by the Anderson mixer.
+const MIXING_DEPTH: usize = 6;
+/// Mixing factor of the Anderson update (1 would take the mixed map value undamped).
+const MIXING_FACTOR: f64 = 0.3;
+
+/// The coupled solution of one case after the outer iteration stopped.
+pub(crate) struct CoupledSolution {
+    /// Surface split at the final stagnation point.
+    pub split: SurfaceSplit,
+    /// Upper-surface layer, stations matching `split.upper.nodes`.
+    pub upper: SideSolution,
+    /// Lower-surface layer, stations matching `split.lower.nodes`.
+    pub lower: SideSolution,
+    /// Wake, stations matching the wake nodes.
+    pub wake: SideSolution,
+    /// Mass defect per node (surface then wake), boundary-layer sense: the warm start of the
+    /// next angle.
+    pub mass_defect: Vec<f64>,
+    /// Whether the residual met the tolerance with every march converged and finite.
+    pub converged: bool,
+    /// Outer iterations used.
+    pub iterations: usize,
+    /// Final residual (see the module documentation).
+    pub residual: f64,
+}
+
+/// Edge conditions of one march, owned (the march borrows them as a [`SideInput`]).
+struct OwnedSideInput {
+    s: Vec<f64>,
+    external_velocity: Vec<f64>,
+    interaction_coefficient: Vec<f64>,
+}
+
+impl OwnedSideInput {
+    fn view(&self) -> SideInput<'_> {
+        SideInput {
+            s: &self.s,
+            external_velocity: &self.external_velocity,
+            interaction_coefficient: &self.interaction_coefficient,
+        }
+    }
+}
+
+/// External speed E_i = ue_i − c_i m_i and coefficient c_i = ∂ue_i/∂m_i of every node of a side.
+fn side_input(
+    case: &CaseModel,
+    side: &SideNodes,
+    q: &[f64],
+    m: &[f64],
+    stag: usize,
+) -> OwnedSideInput {
+    let mut external = Vec::with_capacity(side.nodes.len());
+    let mut coefficient = Vec::with_capacity(side.nodes.len());
+    for &node in &side.nodes {
+        let speed = case.edge_sign(node, stag) * q[node];
+        let mut c = case.self_influence(node, stag);
+        if m[node] > 0.0 {
+            c = c
+                .min(MAX_COEFFICIENT_TIMES_DISPLACEMENT * speed.abs().max(MIN_CAP_SPEED) / m[node]);
+        }
+        external.push(speed - c * m[node]);
+        coefficient.push(c);
+    }
+    OwnedSideInput {
+        s: side.s.clone(),
+        external_velocity: external,
+        interaction_coefficient: coefficient,
+    }
+}
+
+fn wake_nodes(case: &CaseModel) -> SideNodes {
+    SideNodes {
+        nodes: (case.n_surface..case.n_total()).collect(),
+        s: case.wake_s.clone(),
+    }
+}
+
+fn march_settings(settings: &ViscousSettings, trip_s: Option<f64>) -> MarchSettings {
+    MarchSettings {
+        n_critical: settings.effective_n_critical(),
+        trip_s,
+        ..MarchSettings::new(settings.reynolds)
+    }
+}
+
+/// March one surface side with the shipped laminar closure and amplification envelope.
+pub(crate) fn march_side(input: &SideInput, settings: &MarchSettings) -> SideSolution {
+    march_surface(
+        input,
+        settings,
+        FalknerSkanClosure::shipped(),
+        OrrSommerfeldEnvelope::shipped(),
+    )
+}
+
+fn store_defect(target: &mut [f64], nodes: &[usize], solution: &SideSolution) -> bool {
+    let mut finite = true;
+    for (&node, station) in nodes.iter().zip(&solution.stations) {
+        let value = station.edge_velocity * station.delta_star;
+        finite &= value.is_finite();
+        target[node] = value;
+    }
+    finite && solution.stations.len() == nodes.len()
+}
+
+/// Edge speed of the first wake station, which is the trailing edge itself: the mass defect is
+/// continuous there, m_wake = m_upper + m_lower with δ*_wake = δ*_upper + δ*_lower (the wake
+/// march's start), so ue = (ue_u δ*_u + ue_l δ*_l)/(δ*_u + δ*_l). The panel speed at the
+/// trailing-edge point itself is not used: there the inviscid solution has its trailing-edge
+/// singularity (stagnation behind a finite angle, corner flow at a blunt base).
+fn trailing_edge_speed(upper: &Station, lower: &Station) -> f64 {
+    let total = upper.delta_star + lower.delta_star;
+    if total > 0.0 && total.is_finite() {
+        (upper.edge_velocity * upper.delta_star + lower.edge_velocity * lower.delta_star) / total
+    } else {
+        0.5 * (upper.edge_velocity + lower.edge_velocity)
+    }
+}
+
+/// Run the outer iteration for one case, starting from `warm_start` (the mass defect of a
+/// neighbouring angle) or from no displacement at all.
+pub(crate) fn solve_case(
+    case: &CaseModel,
+    settings: &ViscousSettings,
+    warm_start: Option<&[f64]>,
+) -> Result<CoupledSolution> {
+    let n = case.n_total();
+    let ns = case.n_surface;
+    let mut m = match warm_start {
+        Some(w) if w.len() == n && w.iter().all(|v| v.is_finite()) => w.to_vec(),
+        _ => vec![0.0; n],
+    };
+    let mut mixer = AndersonMixer::new(MIXING_DEPTH, MIXING_FACTOR);
+    let mut best_residual = f64::INFINITY;
+    let mut last: Option<CoupledSolution> = None;
+    let wake_side = wake_nodes(case);
+
+    for iteration in 1..=settings.max_iterations {
+        // 1. speeds with the current displacement, stagnation point and split.
+        let guess_split = last.as_ref().map_or(ns / 2, |s| s.split.stagnation.node);
+        let q = case.speeds(&m, guess_split);
+        let stagnation = locate_stagnation(&q[..ns], &case.arc, &case.x[..ns], &case.y[..ns])?;
+        let split = split_surface(stagnation, &case.arc);
+        let stag = stagnation.node;
+        // Speeds again if the split moved (the column signs depend on it).
+        let q = if stag == guess_split {
+            q
+        } else {
+            case.speeds(&m, stag)
+        };
+
+        // 2–3. march both surfaces.
+        let trip_upper = settings
+            .trip_upper
+            .and_then(|xt| arc_length_at_x(&split.upper, &case.x, xt, stagnation.x));
+        let trip_lower = settings
+            .trip_lower
+            .and_then(|xt| arc_length_at_x(&split.lower, &case.x, xt, stagnation.x));
+        let upper_in = side_input(case, &split.upper, &q, &m, stag);
+        let lower_in = side_input(case, &split.lower, &q, &m, stag);
+        let upper = march_side(&upper_in.view(), &march_settings(settings, trip_upper));
+        let lower = march_side(&lower_in.view(), &march_settings(settings, trip_lower));
+        // A node on the stagnation point itself belongs to neither layer: no displacement.
+        let mut m_new = m.clone();
+        m_new[..ns].iter_mut().for_each(|v| *v = 0.0);
+        let mut finite = store_defect(&mut m_new, &split.upper.nodes, &upper);
+        finite &= store_defect(&mut m_new, &split.lower.nodes, &lower);
+
+        // ... then the wake, with the new surface defects (Gauss–Seidel).
+        let q_wake = case.speeds(&m_new, stag);
+        let wake_in = side_input(case, &wake_side, &q_wake, &m_new, stag);
+        let (Some(upper_te), Some(lower_te)) = (upper.stations.last(), lower.stations.last())
+        else {
+            return Err(SolverError::Convergence(
+                "a surface march returned no stations".into(),
+            ));
+        };
+        let mut wake_in = wake_in;
+        if let (Some(e), Some(c)) = (
+            wake_in.external_velocity.first_mut(),
+            wake_in.interaction_coefficient.first_mut(),
+        ) {
+            *e = trailing_edge_speed(upper_te, lower_te);
+            *c = 0.0;
+        }
+        let wake = march_wake(
+            &wake_in.view(),
+            upper_te,
+            lower_te,
+            0.0,
+            &march_settings(settings, None),
+        );
+        finite &= store_defect(&mut m_new, &wake_side.nodes, &wake);
+
+        // 4. residual: the march's edge speed against the panel speed of its own defect.
+        let q_check = case.speeds(&m_new, stag);
+        let mut residual: f64 = 0.0;
+        for (nodes, solution) in [
+            (&split.upper.nodes, &upper),
+            (&split.lower.nodes, &lower),
+            (&wake_side.nodes, &wake),
+        ] {
+            for (&node, station) in nodes.iter().zip(&solution.stations) {
+                if node == case.n_surface {
+                    // The first wake station is the trailing edge itself (see trailing_edge_speed).
+                    continue;
+                }
+                let implied = case.edge_sign(node, stag) * q_check[node];
+                residual = residual.max((station.edge_velocity - implied).abs());
+            }
+        }
+        if !residual.is_finite() {
+            finite = false;
+        }
+        let marches_ok = upper.converged && lower.converged && wake.converged;
+        let done = finite && marches_ok && residual < settings.tolerance;
+
+        // 5. next mass defect by Anderson mixing; when the stagnation point moves to another
+        // node the sides change and the history is meaningless, so it restarts.
+        let moved = last.as_ref().is_some_and(|l| {
+            l.split.upper.nodes != split.upper.nodes || l.split.lower.nodes != split.lower.nodes
+        });
+        if moved || !finite {
+            mixer.reset();
+        }
+        if finite {
+            best_residual = best_residual.min(residual);
+        }
+        let state: Vec<f64> = if done || !finite {
+            m_new.clone()
+        } else {
+            mixer
+                .next(&m, &m_new)
+                .into_iter()
+                .map(|v| v.max(0.0))
+                .collect()
+        };
+        last = Some(CoupledSolution {
+            split,
+            upper,
+            lower,
+            wake,
+            mass_defect: m_new,
+            converged: done,
+            iterations: iteration,
+            residual,
+        });
+        if done || !finite {
+            break;
+        }
+        m = state;
+    }
+    last.ok_or_else(|| SolverError::Internal("outer iteration ran no pass".into()))
+}

@@ -1,0 +1,316 @@
+//! Angle sweeps with warm starts, and the polar row and station table of a coupled solution.
+
+use crate::boundary_layer::{Regime, SideSolution};
+use crate::error::Result;
+use crate::geometry::Section;
+
+use crate::inviscid::compressibility::karman_tsien_cp as karman_tsien;
+
+use super::forces::{far_wake_drag, friction_drag, integrate_pressure, squire_young};
+use super::iteration::{solve_case, CoupledSolution};
+use super::model::{CaseModel, SectionModel};
+use super::settings::ViscousSettings;
+use super::stagnation::{x_at_arc_length, SideNodes};
+use super::{StationRegime, StationRow, StationSide, ViscousRow};
+
+/// A solved operating point: its polar row and its boundary-layer and wake stations.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ViscousAnalysis {
+    /// The polar row.
+    pub row: ViscousRow,
+    /// Upper stations (stagnation to trailing edge), lower stations, then wake stations.
+    pub stations: Vec<StationRow>,
+}
+
+/// Solve one angle, falling back to a cold start when a warm start does not converge.
+pub(crate) fn solve_angle(
+    section: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm_start: Option<&[f64]>,
+) -> Option<(CaseModel, CoupledSolution)> {
+    let case = CaseModel::new(section, alpha_deg, settings).ok()?;
+    let first = solve_case(&case, settings, warm_start).ok();
+    if first.as_ref().is_some_and(|s| s.converged) || warm_start.is_none() {
+        return first.map(|s| (case, s));
+    }
+    let cold = solve_case(&case, settings, None).ok();
+    match (first, cold) {
+        (_, Some(c)) if c.converged => Some((case, c)),
+        (Some(f), _) => Some((case, f)),
+        (None, c) => c.map(|c| (case, c)),
+    }
+}
+
+/// Smallest angle step worth subdividing when a warm start fails, degrees.
+const MIN_CONTINUATION_STEP_DEG: f64 = 0.2;
+/// Levels of step halving tried after a failed warm start.
+const CONTINUATION_LEVELS: usize = 2;
+
+/// Solve `alpha_deg` from the converged neighbour `warm` = (angle, mass defect); when that
+/// fails, approach it through intermediate angles (the step halved, up to two levels), each
+/// warm-started from the last converged one: continuation in α.
+pub(crate) fn solve_with_continuation(
+    section: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm: Option<&(f64, Vec<f64>)>,
+) -> Option<(CaseModel, CoupledSolution)> {
+    let first = solve_angle(section, alpha_deg, settings, warm.map(|w| w.1.as_slice()));
+    if first.as_ref().is_some_and(|(_, s)| s.converged) {
+        return first;
+    }
+    let Some((from, defect)) = warm else {
+        return first;
+    };
+    let mut start = (*from, defect.clone());
+    for level in 1..=CONTINUATION_LEVELS {
+        let step = (alpha_deg - start.0) / (1 << level) as f64;
+        if step.abs() < MIN_CONTINUATION_STEP_DEG {
+            break;
+        }
+        let mut reached = true;
+        for k in 1..(1 << level) {
+            let a = start.0 + step * k as f64;
+            match solve_angle(section, a, settings, Some(&start.1)) {
+                Some((_, s)) if s.converged => start = (a, s.mass_defect),
+                _ => {
+                    reached = false;
+                    break;
+                }
+            }
+        }
+        if reached {
+            let again = solve_angle(section, alpha_deg, settings, Some(&start.1));
+            if again.as_ref().is_some_and(|(_, s)| s.converged) {
+                return again;
+            }
+        }
+    }
+    first
+}
+
+/// Viscous polar of `section` at every angle in `alpha_deg` (rows in the given order).
+///
+/// The angles are solved in order of increasing distance from the one nearest 0°, upwards
+/// then downwards, each warm-started from the mass defect of its converged neighbour (with
+/// continuation through intermediate angles when that fails), so a sweep is as cheap as
+/// possible and the result does not depend on any thread count.
+pub fn analyze_viscous(
+    section: &Section,
+    alpha_deg: &[f64],
+    settings: &ViscousSettings,
+) -> Result<Vec<ViscousRow>> {
+    settings.validate()?;
+    let model = SectionModel::new(section, settings)?;
+    Ok(sweep(&model, alpha_deg, settings))
+}
+
+pub(crate) fn sweep(
+    model: &SectionModel,
+    alpha_deg: &[f64],
+    settings: &ViscousSettings,
+) -> Vec<ViscousRow> {
+    let mut order: Vec<usize> = (0..alpha_deg.len()).collect();
+    order.sort_by(|&a, &b| alpha_deg[a].total_cmp(&alpha_deg[b]).then(a.cmp(&b)));
+    let mut rows: Vec<Option<ViscousRow>> = vec![None; alpha_deg.len()];
+    let Some(start) = (0..order.len()).min_by(|&a, &b| {
+        alpha_deg[order[a]]
+            .abs()
+            .total_cmp(&alpha_deg[order[b]].abs())
+    }) else {
+        return Vec::new();
+    };
+    let upward: Vec<usize> = order[start..].to_vec();
+    let downward: Vec<usize> = order[..start].iter().rev().copied().collect();
+    let mut start_defect: Option<(f64, Vec<f64>)> = None;
+    for (pass, indices) in [upward, downward].into_iter().enumerate() {
+        // The last converged angle of this pass and its mass defect (the warm start).
+        let mut warm: Option<(f64, Vec<f64>)> = if pass == 0 {
+            None
+        } else {
+            start_defect.clone()
+        };
+        for (k, &index) in indices.iter().enumerate() {
+            let alpha = alpha_deg[index];
+            let row = match solve_with_continuation(model, alpha, settings, warm.as_ref()) {
+                Some((case, solution)) => {
+                    let row = polar_row(&case, &solution, settings);
+                    if solution.converged {
+                        warm = Some((alpha, solution.mass_defect.clone()));
+                        if pass == 0 && k == 0 {
+                            start_defect = warm.clone();
+                        }
+                    }
+                    row
+                }
+                None => ViscousRow::failed(alpha, 0, f64::NAN),
+            };
+            rows[index] = Some(row);
+        }
+    }
+    rows.into_iter()
+        .zip(alpha_deg)
+        .map(|(r, &a)| r.unwrap_or_else(|| ViscousRow::failed(a, 0, f64::NAN)))
+        .collect()
+}
+
+/// The polar row and stations of one angle. Angles away from 0° are approached through a
+/// few warm-started intermediate angles (steps of at most 2°), as a sweep would.
+pub fn boundary_layer_stations(
+    section: &Section,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+) -> Result<ViscousAnalysis> {
+    settings.validate()?;
+    let model = SectionModel::new(section, settings)?;
+    let steps = (alpha_deg.abs() / 2.0).ceil() as usize;
+    let mut warm: Option<Vec<f64>> = None;
+    for k in 0..steps {
+        let a = alpha_deg * k as f64 / steps as f64;
+        if let Some((_, s)) = solve_angle(&model, a, settings, warm.as_deref()) {
+            if s.converged {
+                warm = Some(s.mass_defect);
+            }
+        }
+    }
+    match solve_angle(&model, alpha_deg, settings, warm.as_deref()) {
+        Some((case, solution)) => Ok(ViscousAnalysis {
+            row: polar_row(&case, &solution, settings),
+            stations: stations(&case, &solution),
+        }),
+        None => Err(crate::error::SolverError::Convergence(format!(
+            "no boundary-layer solution could be formed at alpha_deg = {alpha_deg}"
+        ))),
+    }
+}
+
+fn side_points(
+    case: &CaseModel,
+    nodes: &SideNodes,
+    solution: &SideSolution,
+    stag: (f64, f64),
+) -> [Vec<f64>; 4] {
+    let mut x = vec![stag.0];
+    let mut y = vec![stag.1];
+    let mut cf = vec![0.0];
+    let mut ue = vec![0.0];
+    for (&node, st) in nodes.nodes.iter().zip(&solution.stations) {
+        x.push(case.x[node]);
+        y.push(case.y[node]);
+        cf.push(st.cf);
+        ue.push(st.edge_velocity);
+    }
+    [x, y, cf, ue]
+}
+
+/// Assemble the polar row of a coupled solution (forces, drags, transition, separation).
+pub(crate) fn polar_row(
+    case: &CaseModel,
+    sol: &CoupledSolution,
+    settings: &ViscousSettings,
+) -> ViscousRow {
+    let ns = case.n_surface;
+    let alpha = case.alpha_deg;
+    let stag = sol.split.stagnation;
+    // Viscous edge speed at each surface node, from the marches.
+    let mut ue = vec![0.0; ns];
+    for (nodes, side) in [
+        (&sol.split.upper, &sol.upper),
+        (&sol.split.lower, &sol.lower),
+    ] {
+        for (&node, st) in nodes.nodes.iter().zip(&side.stations) {
+            ue[node] = st.edge_velocity;
+        }
+    }
+    let cp_of = |speed: f64| karman_tsien(1.0 - speed * speed, settings.mach);
+    let cp: Vec<f64> = ue.iter().map(|&u| cp_of(u)).collect();
+    let (xs, ys) = (&case.x[..ns], &case.y[..ns]);
+    let viscous = integrate_pressure(xs, ys, &cp, alpha);
+    let cd_pressure = viscous.cd;
+
+    let mut cd_friction = 0.0;
+    let mut cd_sy = 0.0;
+    for (nodes, side) in [
+        (&sol.split.upper, &sol.upper),
+        (&sol.split.lower, &sol.lower),
+    ] {
+        let [x, y, cf, u] = side_points(case, nodes, side, (stag.x, stag.y));
+        cd_friction += friction_drag(&x, &y, &cf, &u, alpha);
+        if let Some(te) = side.stations.last() {
+            cd_sy += squire_young(te.theta, te.edge_velocity, te.shape_factor);
+        }
+    }
+    let cd = sol.wake.stations.last().map_or(f64::NAN, |end| {
+        far_wake_drag(end.theta, end.edge_velocity, end.shape_factor)
+    });
+
+    let to_x = |nodes: &SideNodes, s: f64| x_at_arc_length(nodes, &case.x, s, stag.x);
+    let transition =
+        |nodes: &SideNodes, side: &SideSolution| side.transition_s.map_or(1.0, |s| to_x(nodes, s));
+    let separation = |nodes: &SideNodes, side: &SideSolution| {
+        side.turbulent_separation_s.map(|s| to_x(nodes, s))
+    };
+
+    let mut row = ViscousRow {
+        alpha_deg: alpha,
+        cl: viscous.cl,
+        cd,
+        cd_squire_young: cd_sy,
+        cd_friction,
+        cd_pressure,
+        cm_c4: viscous.cm_c4,
+        cp_min: cp.iter().copied().fold(f64::INFINITY, f64::min),
+        transition_upper: transition(&sol.split.upper, &sol.upper),
+        transition_lower: transition(&sol.split.lower, &sol.lower),
+        separation_upper: separation(&sol.split.upper, &sol.upper),
+        separation_lower: separation(&sol.split.lower, &sol.lower),
+        converged: sol.converged,
+        iterations: sol.iterations,
+        residual: sol.residual,
+    };
+    // A converged row never holds NaN: anything non-finite demotes it to a flagged row.
+    if row.converged && !row.is_finite() {
+        row.converged = false;
+    }
+    row
+}
+
+fn regime(r: Regime) -> StationRegime {
+    match r {
+        Regime::Laminar => StationRegime::Laminar,
+        Regime::Turbulent => StationRegime::Turbulent,
+        Regime::Wake => StationRegime::Wake,
+    }
+}
+
+/// Station table of a coupled solution: upper, lower, then wake.
+pub(crate) fn stations(case: &CaseModel, sol: &CoupledSolution) -> Vec<StationRow> {
+    let wake_nodes = SideNodes {
+        nodes: (case.n_surface..case.n_total()).collect(),
+        s: case.wake_s.clone(),
+    };
+    let mut out = Vec::new();
+    for (side, nodes, solution) in [
+        (StationSide::Upper, &sol.split.upper, &sol.upper),
+        (StationSide::Lower, &sol.split.lower, &sol.lower),
+        (StationSide::Wake, &wake_nodes, &sol.wake),
+    ] {
+        for (&node, st) in nodes.nodes.iter().zip(&solution.stations) {
+            out.push(StationRow {
+                side,
+                s: st.s,
+                x: case.x[node],
+                y: case.y[node],
+                edge_velocity: st.edge_velocity,
+                delta_star: st.delta_star,
+                theta: st.theta,
+                shape_factor: st.shape_factor,
+                cf: st.cf,
+                amplification: st.amplification,
+                regime: regime(st.regime),
+            });
+        }
+    }
+    out
+}

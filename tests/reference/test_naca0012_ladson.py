@@ -1,0 +1,63 @@
+"""NACA 0012 at M = 0.15 against Ladson, NASA TM-4074 (1988), Langley LTPT.
+
+Reference values from the report's Table I (free transition) and the grit-trip runs at
+x/c = 0.05 (Re 6e6), shipped in wakerank/data (see its README). Tolerances are the ones the
+project set for these checks: cd within 10 %, lift slope within 5 %.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import polars as pl
+import pytest
+
+import wakerank as wr
+from wakerank.validation import mccroskey_lift_slope, reference_table
+
+
+@pytest.fixture(scope="module")
+def naca0012():
+    return wr.Section.naca("0012")
+
+
+@pytest.mark.xfail(
+    reason="known miss, docs/validation.md: the α = 0.05° point does not converge (residual ~1e-2 "
+    "after 80 passes); converged neighbours give cd 0.0057-0.0058, 11-13 % below Ladson's 0.0065",
+    strict=False,
+)
+def test_free_transition_cd_at_zero_lift_re6e6(naca0012):
+    # Ladson NASA TM-4074 Table I: cd = 0.0065 at Re 5.97e6, α = 0.05° [T].
+    table = reference_table("ladson1988_naca0012_free_transition_M015")
+    ref = table.filter((pl.col("Re") == 5.97e6) & (pl.col("alpha_deg").abs() < 0.1)).row(0, named=True)
+    polar = wr.analyze(naca0012, alpha_deg=ref["alpha_deg"], reynolds=5.97e6, mach=0.15)
+    assert polar["converged"][0]
+    assert polar["cd"][0] == pytest.approx(ref["cd"], rel=0.10)
+
+
+def test_tripped_cd_at_zero_lift_re6e6(naca0012):
+    # Ladson NASA TM-4074, grit at x/c 0.05, Re 6e6: cd = 0.0080–0.0081 near α = 0 [T].
+    table = reference_table("ladson1988_naca0012_tripped_Re6e6_M015")
+    near_zero = table.filter(pl.col("alpha_deg").abs() < 0.1)
+    published = float(near_zero["cd"].mean())
+    polar = wr.analyze(
+        naca0012, alpha_deg=0.0, reynolds=6e6, mach=0.15, trip_upper=0.05, trip_lower=0.05
+    )
+    assert polar["converged"][0]
+    assert polar["cd"][0] == pytest.approx(published, rel=0.10)
+
+
+@pytest.mark.xfail(
+    reason="known miss, docs/validation.md: slope 0.1131/deg over 0-8 deg, +5.2 % on McCroskey's "
+    "0.1075 (the viscous lift loss is about half the measured one)",
+    strict=False,
+)
+def test_tripped_lift_slope_re6e6(naca0012):
+    # Ladson NASA TM-4074 tripped runs: 0.1065–0.1078 per degree over 0°–10° [C from the table];
+    # McCroskey AGARD CP-429 (1988) fit: 0.1075 per degree at Re 6e6, M 0.15. Within 5 %.
+    alphas = [0.0, 2.0, 4.0, 6.0, 8.0]
+    polar = wr.analyze(
+        naca0012, alpha_deg=alphas, reynolds=6e6, mach=0.15, trip_upper=0.05, trip_lower=0.05
+    )
+    assert polar["converged"].all()
+    slope = np.polyfit(polar["alpha_deg"].to_numpy(), polar["cl"].to_numpy(), 1)[0]
+    assert slope == pytest.approx(mccroskey_lift_slope(6e6, 0.15), rel=0.05)
