@@ -80,7 +80,8 @@ def run_demo(
 def plot_shortlist_polars(
     catalog_dir: Path, shortlist: pl.DataFrame, design_cl: list[float], path: Path
 ) -> None:
-    """Drag polars (cd against cl) of the shortlisted sections at their ranked condition."""
+    """Drag polars (cd against cl) of the shortlisted sections at their ranked condition; the
+    lines break where an angle did not converge."""
     import matplotlib
 
     matplotlib.use("Agg")
@@ -94,18 +95,16 @@ def plot_shortlist_polars(
             points.filter(
                 (pl.col("section_id") == row["section_id"])
                 & (pl.col("condition_id") == row["condition_id"])
-                & pl.col("converged")
             )
             .sort("alpha_deg")
+            .with_columns(  # NaN where not converged: the line breaks at every gap
+                [pl.when(pl.col("converged")).then(pl.col(c)).otherwise(float("nan")).alias(c)
+                 for c in ("cl", "cd")]
+            )
             .collect()
         )
-        ax.plot(
-            polar["cd"],
-            polar["cl"],
-            marker="o",
-            markersize=3,
-            label=f"#{row['rank']} {row['label']} (t/c {row['thickness']:.2f})",
-        )
+        ax.plot(polar["cd"].to_numpy(), polar["cl"].to_numpy(), marker="o", markersize=3,
+                label=f"#{row['rank']} {row['label']} (t/c {row['thickness']:.2f})")
         n_text = f"N = {row['n_factor']:g}" if row["n_factor"] is not None else "Tu set"
         conditions = f"Re = {row['reynolds']:.3g}, M = {row['mach']:g}, {row['transition']} transition ({n_text})"
     for target in design_cl:
