@@ -123,8 +123,8 @@ def test_unexpected_error_marks_the_chunk_failed_not_lost(campaign_file, tmp_pat
     assert fixed.complete and fixed.computed_chunks == len(summary.failed_chunks)
 
 
-def _driver(args, **kwargs):
-    env = {**os.environ, "PYTHONPATH": str(DRIVER.parent)}
+def _driver(args, core="fake", **kwargs):
+    env = {**os.environ, "PYTHONPATH": str(DRIVER.parent), "WAKERANK_TEST_CORE": core}
     return subprocess.Popen(
         [sys.executable, str(DRIVER), *args],
         env=env,
@@ -159,6 +159,54 @@ def test_sigkill_mid_run_then_rerun_equals_an_uninterrupted_run(campaign_file, t
     assert rerun.returncode == 0, stderr
     _run(campaign_file, tmp_path / "clean", analysis_function=fake_analyze)
     killed, clean = _points(out), _points(tmp_path / "clean")
+    assert killed.select(ORDER).is_duplicated().sum() == 0
+    assert killed.equals(clean)
+
+
+REAL_CAMPAIGN = """\
+name = "kill-check"
+panels = 80
+chunk_size = 1
+
+[[sections]]
+family = "naca4"
+camber = [0.0, 0.02, 0.04]
+camber_position = [0.4]
+thickness = [0.10, 0.12, 0.15]
+
+[conditions]
+reynolds = [5e5, 1e6]
+alpha_deg = {from = 0, to = 4, step = 2}
+"""
+
+
+def _real_core_available() -> bool:
+    import wakerank as wr
+
+    try:
+        wr.analyze(wr.Section.naca("0012"), alpha_deg=[0.0], reynolds=1e6, panels=80)
+    except (AttributeError, wr.InputError):
+        return False
+    return True
+
+
+@pytest.mark.skipif(not _real_core_available(), reason="needs the viscous analysis")
+def test_sigkill_with_the_real_core_then_rerun_equals_an_uninterrupted_run(tmp_path):
+    campaign = tmp_path / "kill.toml"
+    campaign.write_text(REAL_CAMPAIGN)
+    out = tmp_path / "killed"
+    process = _driver(["run", str(campaign), "--out", str(out), "--workers", "1"], core="real")
+    _wait_for_parts(out / "points", 3, process, timeout=120)
+    process.send_signal(signal.SIGKILL)
+    process.wait()
+    written = len(list((out / "points").glob("part-*.parquet")))
+    assert 0 < written < 18, "the kill should land half-way"
+    rerun = _driver(["run", str(campaign), "--out", str(out), "--workers", "2"], core="real")
+    _, stderr = rerun.communicate(timeout=300)
+    assert rerun.returncode == 0, stderr
+    run_campaign(load_campaign(campaign), tmp_path / "clean", workers=1, progress=False)
+    killed, clean = _points(out), _points(tmp_path / "clean")
+    assert killed.height == 9 * 2 * 3  # sections x Reynolds numbers x angles
     assert killed.select(ORDER).is_duplicated().sum() == 0
     assert killed.equals(clean)
 
