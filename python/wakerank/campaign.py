@@ -491,7 +491,8 @@ def _describe(error: dict[str, Any]) -> str:
             f"{ctx.get('expected_tags')}"
         )
     if kind == "union_tag_not_found":
-        return f"{where}missing required key {str(ctx.get('discriminator', 'family')).strip(chr(39))!r}"
+        key = str(ctx.get("discriminator", "family")).strip("'")
+        return f"{where}missing required key {key!r}"
     if kind in ("value_error", "assertion_error"):
         message = error["msg"].removeprefix("Value error, ").removeprefix("Assertion failed, ")
         return f"{where}{message}"

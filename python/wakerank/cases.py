@@ -248,7 +248,10 @@ def _naca4_sections(family: Naca4Family, where: str) -> list[SectionSpec]:
             "closed_te": family.closed_te,
         }
         label = _naca4_label(camber, position, thickness)
-        context = f"{where}: camber = {camber:g}, camber_position = {position:g}, thickness = {thickness:g}"
+        context = (
+            f"{where}: camber = {camber:g}, camber_position = {position:g}, "
+            f"thickness = {thickness:g}"
+        )
         specs.append(_spec("naca4", parameters, label, context))
     return specs
 

@@ -98,15 +98,25 @@ def plot_shortlist_polars(
             )
             .sort("alpha_deg")
             .with_columns(  # NaN where not converged: the line breaks at every gap
-                [pl.when(pl.col("converged")).then(pl.col(c)).otherwise(float("nan")).alias(c)
-                 for c in ("cl", "cd")]
+                [
+                    pl.when(pl.col("converged")).then(pl.col(c)).otherwise(float("nan")).alias(c)
+                    for c in ("cl", "cd")
+                ]
             )
             .collect()
         )
-        ax.plot(polar["cd"].to_numpy(), polar["cl"].to_numpy(), marker="o", markersize=3,
-                label=f"#{row['rank']} {row['label']} (t/c {row['thickness']:.2f})")
+        ax.plot(
+            polar["cd"].to_numpy(),
+            polar["cl"].to_numpy(),
+            marker="o",
+            markersize=3,
+            label=f"#{row['rank']} {row['label']} (t/c {row['thickness']:.2f})",
+        )
         n_text = f"N = {row['n_factor']:g}" if row["n_factor"] is not None else "Tu set"
-        conditions = f"Re = {row['reynolds']:.3g}, M = {row['mach']:g}, {row['transition']} transition ({n_text})"
+        conditions = (
+            f"Re = {row['reynolds']:.3g}, M = {row['mach']:g}, "
+            f"{row['transition']} transition ({n_text})"
+        )
     for target in design_cl:
         ax.axhline(target, color="grey", linestyle="--", linewidth=0.8)
     ax.set_xlabel("section drag coefficient cd (-)")

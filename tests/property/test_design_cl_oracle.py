@@ -9,7 +9,6 @@ import polars as pl
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
-
 from wakerank import polar
 
 
@@ -42,17 +41,28 @@ def oracle(alpha, cl, cd, usable, converged, target):
 )
 def test_vectorised_interpolation_matches_the_oracle(n, slope, stall_at, failed, separated, target):
     alpha = np.arange(n, dtype=float)
-    cl = np.where(alpha <= stall_at, slope * alpha + 0.1, slope * stall_at + 0.1 - 0.05 * (alpha - stall_at))
+    cl = np.where(
+        alpha <= stall_at, slope * alpha + 0.1, slope * stall_at + 0.1 - 0.05 * (alpha - stall_at)
+    )
     cd = 0.01 + 0.02 * (cl - 0.4) ** 2 + 0.0001 * alpha
     converged = np.array([i not in failed for i in range(n)])
     sep = np.array([i in separated for i in range(n)])
     usable = converged & ~sep
-    frame = pl.LazyFrame({
-        "section_id": "s", "condition_id": "c", "alpha_deg": alpha, "cl": cl, "cd": cd,
-        "cm_c4": -0.05, "transition_upper": 0.4, "transition_lower": 0.6,
-        "separation_upper": np.where(sep, 0.9, np.nan), "separation_lower": np.nan,
-        "converged": converged,
-    }).with_columns(pl.col("separation_upper", "separation_lower").fill_nan(None))
+    frame = pl.LazyFrame(
+        {
+            "section_id": "s",
+            "condition_id": "c",
+            "alpha_deg": alpha,
+            "cl": cl,
+            "cd": cd,
+            "cm_c4": -0.05,
+            "transition_upper": 0.4,
+            "transition_lower": 0.6,
+            "separation_upper": np.where(sep, 0.9, np.nan),
+            "separation_lower": np.nan,
+            "converged": converged,
+        }
+    ).with_columns(pl.col("separation_upper", "separation_lower").fill_nan(None))
     got = polar.at_design_cl(polar.prepare(frame), [target]).collect()
     expected = oracle(alpha, cl, cd, usable, converged, target)
     if expected is None:

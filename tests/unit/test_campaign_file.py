@@ -188,10 +188,15 @@ def test_real_sections_rebuild_to_the_same_geometry(tmp_path):
     x, y = naca_symmetric(0.11)
     (tmp_path / "candidates").mkdir()
     (tmp_path / "candidates" / "mine.txt").write_text(
-        "my section\n" + "\n".join(f"{a:.8f} {b:.8f}" for a, b in zip(x, y)) + "\n")
+        "my section\n" + "\n".join(f"{a:.8f} {b:.8f}" for a, b in zip(x, y)) + "\n"
+    )
     path = tmp_path / "c.toml"
-    path.write_text(TINY_CAMPAIGN.replace(
-        "[conditions]", '[[sections]]\nfamily = "file"\npaths = ["candidates/*.txt"]\n\n[conditions]'))
+    path.write_text(
+        TINY_CAMPAIGN.replace(
+            "[conditions]",
+            '[[sections]]\nfamily = "file"\npaths = ["candidates/*.txt"]\n\n[conditions]',
+        )
+    )
     plan = expand(load_campaign(path))
     assert [s.family for s in plan.sections] == ["naca4"] * 4 + ["naca", "file"]
     for spec in plan.sections:

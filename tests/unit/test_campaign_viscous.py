@@ -5,12 +5,10 @@ from __future__ import annotations
 
 import polars as pl
 import pytest
-
 import wakerank as wr
 from wakerank.campaign import load_campaign
 from wakerank.catalog import open_catalog
 from wakerank.session import run_campaign
-
 
 
 def _viscous_available() -> bool:

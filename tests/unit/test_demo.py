@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import polars as pl
 from campaign_fakes import install
-
 from wakerank.demo import run_demo
 
 

@@ -176,14 +176,29 @@ def test_open_catalog_gives_lazy_frames(tmp_path):
 
 def test_rank_command_prints_the_table_and_writes_the_shortlist(tmp_path):
     from typer.testing import CliRunner
-
     from wakerank.cli import app
 
     catalog = _catalog(tmp_path / "cat")
     out = tmp_path / "shortlist.parquet"
-    result = CliRunner().invoke(app, ["rank", str(catalog), "--cl", "0.4", "--cl", "0.55",
-                                      "--weights", "0.3,0.7", "--min-thickness", "0.11",
-                                      "--top", "5", "--out", str(out)])
+    result = CliRunner().invoke(
+        app,
+        [
+            "rank",
+            str(catalog),
+            "--cl",
+            "0.4",
+            "--cl",
+            "0.55",
+            "--weights",
+            "0.3,0.7",
+            "--min-thickness",
+            "0.11",
+            "--top",
+            "5",
+            "--out",
+            str(out),
+        ],
+    )
     assert result.exit_code == 0, result.output
     assert "least drag at cl = 0.4, 0.55" in result.output
     assert pl.read_parquet(out)["section_id"].to_list() == ["G", "A"]
@@ -193,7 +208,6 @@ def test_rank_command_prints_the_table_and_writes_the_shortlist(tmp_path):
 
 def test_rank_command_takes_the_design_point_from_the_manifest(tmp_path):
     from typer.testing import CliRunner
-
     from wakerank.cli import app
 
     catalog = _catalog(tmp_path / "cat")

@@ -6,8 +6,8 @@ from pathlib import Path
 from typing import Any
 
 import typer
-from rich.console import Console
 from rich import box
+from rich.console import Console
 from rich.table import Table
 
 from wakerank.cli import app
@@ -153,8 +153,12 @@ def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> N
     for i, header in enumerate(headers):
         left = header in ("section", "transition")
         widest = max([len(header)] + [len(r[i]) for r in rows])
-        table.add_column(header, justify="left" if left else "right",
-                         min_width=min(widest, 10) if left else widest, no_wrap=not left)
+        table.add_column(
+            header,
+            justify="left" if left else "right",
+            min_width=min(widest, 10) if left else widest,
+            no_wrap=not left,
+        )
     for cells in rows:
         table.add_row(*cells)
     console.print(table)
