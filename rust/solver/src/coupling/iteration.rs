@@ -29,18 +29,41 @@ use super::stagnation::{
     arc_length_at_x, locate_stagnation, split_surface, SideNodes, SurfaceSplit,
 };
 
-/// Largest c·δ* allowed in the interaction law ue = E + c·ue·δ*: on the short panels at the
-/// trailing edge D_ii reaches several hundred per chord, c·δ* approaches one and the local law
-/// ue(1 − cδ*) = E turns nearly singular. Capping c (with δ* of the previous iterate) keeps
-/// every march well posed; it does not change the converged solution, because E carries the
-/// rest of the influence.
-const MAX_COEFFICIENT_TIMES_DISPLACEMENT: f64 = 0.8;
+/// How the outer iteration is run: the cap on c·δ* and the Anderson mixing factor.
+///
+/// The cap: on the short panels at the trailing edge D_ii reaches several hundred per chord,
+/// c·δ* approaches one and the local law ue(1 − cδ*) = E turns nearly singular. Capping c
+/// (with δ* of the previous iterate) keeps every march well posed; it does not change the
+/// converged solution, because E carries the rest of the influence.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct Strategy {
+    /// Largest c·δ* allowed in the interaction law ue = E + c·ue·δ*.
+    pub max_coefficient_times_displacement: f64,
+    /// Mixing factor of the Anderson update (1 would take the mixed map value undamped).
+    pub mixing: f64,
+}
+
+/// The first strategy tried.
+pub(crate) const PRIMARY: Strategy = Strategy {
+    max_coefficient_times_displacement: 0.8,
+    mixing: 0.3,
+};
+/// A more cautious one for cases where the first stalls: a softer interaction law and
+/// stronger damping.
+pub(crate) const CAUTIOUS: Strategy = Strategy {
+    max_coefficient_times_displacement: 0.5,
+    mixing: 0.15,
+};
+/// The last resort: an interaction coefficient closer to the full self-influence, which some
+/// trailing-edge states need to keep the saw-tooth mode of the iteration damped.
+pub(crate) const STIFF: Strategy = Strategy {
+    max_coefficient_times_displacement: 1.5,
+    mixing: 0.3,
+};
 /// Floor on the speed used in that cap (near the stagnation point).
 const MIN_CAP_SPEED: f64 = 0.05;
 /// Differences kept by the Anderson mixer.
 const MIXING_DEPTH: usize = 6;
-/// Mixing factor of the Anderson update (1 would take the mixed map value undamped).
-const MIXING_FACTOR: f64 = 0.3;
 
 /// The coupled solution of one case after the outer iteration stopped.
 pub(crate) struct CoupledSolution {
@@ -87,6 +110,7 @@ fn side_input(
     q: &[f64],
     m: &[f64],
     stag: usize,
+    cap: f64,
 ) -> OwnedSideInput {
     let mut external = Vec::with_capacity(side.nodes.len());
     let mut coefficient = Vec::with_capacity(side.nodes.len());
@@ -94,8 +118,7 @@ fn side_input(
         let speed = case.edge_sign(node, stag) * q[node];
         let mut c = case.self_influence(node, stag);
         if m[node] > 0.0 {
-            c = c
-                .min(MAX_COEFFICIENT_TIMES_DISPLACEMENT * speed.abs().max(MIN_CAP_SPEED) / m[node]);
+            c = c.min(cap * speed.abs().max(MIN_CAP_SPEED) / m[node]);
         }
         external.push(speed - c * m[node]);
         coefficient.push(c);
@@ -162,6 +185,7 @@ pub(crate) fn solve_case(
     case: &CaseModel,
     settings: &ViscousSettings,
     warm_start: Option<&[f64]>,
+    strategy: Strategy,
 ) -> Result<CoupledSolution> {
     let n = case.n_total();
     let ns = case.n_surface;
@@ -169,7 +193,8 @@ pub(crate) fn solve_case(
         Some(w) if w.len() == n && w.iter().all(|v| v.is_finite()) => w.to_vec(),
         _ => vec![0.0; n],
     };
-    let mut mixer = AndersonMixer::new(MIXING_DEPTH, MIXING_FACTOR);
+    let mut mixer = AndersonMixer::new(MIXING_DEPTH, strategy.mixing);
+    let cap = strategy.max_coefficient_times_displacement;
     let mut best_residual = f64::INFINITY;
     let mut last: Option<CoupledSolution> = None;
     let wake_side = wake_nodes(case);
@@ -195,8 +220,8 @@ pub(crate) fn solve_case(
         let trip_lower = settings
             .trip_lower
             .and_then(|xt| arc_length_at_x(&split.lower, &case.x, xt, stagnation.x));
-        let upper_in = side_input(case, &split.upper, &q, &m, stag);
-        let lower_in = side_input(case, &split.lower, &q, &m, stag);
+        let upper_in = side_input(case, &split.upper, &q, &m, stag, cap);
+        let lower_in = side_input(case, &split.lower, &q, &m, stag, cap);
         let upper = march_side(&upper_in.view(), &march_settings(settings, trip_upper));
         let lower = march_side(&lower_in.view(), &march_settings(settings, trip_lower));
         // A node on the stagnation point itself belongs to neither layer: no displacement.
@@ -207,7 +232,7 @@ pub(crate) fn solve_case(
 
         // ... then the wake, with the new surface defects (Gauss–Seidel).
         let q_wake = case.speeds(&m_new, stag);
-        let wake_in = side_input(case, &wake_side, &q_wake, &m_new, stag);
+        let wake_in = side_input(case, &wake_side, &q_wake, &m_new, stag, cap);
         let (Some(upper_te), Some(lower_te)) = (upper.stations.last(), lower.stations.last())
         else {
             return Err(SolverError::Convergence(

@@ -7,7 +7,7 @@ use crate::geometry::Section;
 use crate::inviscid::compressibility::karman_tsien_cp as karman_tsien;
 
 use super::forces::{far_wake_drag, friction_drag, integrate_pressure, squire_young};
-use super::iteration::{solve_case, CoupledSolution};
+use super::iteration::{solve_case, CoupledSolution, CAUTIOUS, PRIMARY, STIFF};
 use super::model::{CaseModel, SectionModel};
 use super::settings::ViscousSettings;
 use super::stagnation::{x_at_arc_length, SideNodes};
@@ -22,7 +22,9 @@ pub struct ViscousAnalysis {
     pub stations: Vec<StationRow>,
 }
 
-/// Solve one angle, falling back to a cold start when a warm start does not converge.
+/// Solve one angle: from the warm start, then from no displacement, then both again with the
+/// cautious and then the stiff strategy, until one attempt converges (the last attempt is
+/// kept otherwise).
 pub(crate) fn solve_angle(
     section: &SectionModel,
     alpha_deg: f64,
@@ -30,16 +32,22 @@ pub(crate) fn solve_angle(
     warm_start: Option<&[f64]>,
 ) -> Option<(CaseModel, CoupledSolution)> {
     let case = CaseModel::new(section, alpha_deg, settings).ok()?;
-    let first = solve_case(&case, settings, warm_start).ok();
-    if first.as_ref().is_some_and(|s| s.converged) || warm_start.is_none() {
-        return first.map(|s| (case, s));
+    let mut best: Option<CoupledSolution> = None;
+    for strategy in [PRIMARY, CAUTIOUS, STIFF] {
+        for start in [warm_start, None] {
+            if let Ok(solution) = solve_case(&case, settings, start, strategy) {
+                let converged = solution.converged;
+                best = Some(solution);
+                if converged {
+                    return best.map(|s| (case, s));
+                }
+            }
+            if warm_start.is_none() {
+                break;
+            }
+        }
     }
-    let cold = solve_case(&case, settings, None).ok();
-    match (first, cold) {
-        (_, Some(c)) if c.converged => Some((case, c)),
-        (Some(f), _) => Some((case, f)),
-        (None, c) => c.map(|c| (case, c)),
-    }
+    best.map(|s| (case, s))
 }
 
 /// Smallest angle step worth subdividing when a warm start fails, degrees.
