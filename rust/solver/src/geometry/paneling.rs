@@ -27,6 +27,22 @@ const SAMPLES_PER_PANEL: usize = 40;
 /// A new section with `panels` + 1 points (`panels` panels between consecutive points) on
 /// the spline through `section`'s points, the first and last point unchanged.
 pub fn repanel(section: &Section, panels: usize) -> Result<Section> {
+    repanel_with_trailing_edge_density(section, panels, TE_DENSITY)
+}
+
+/// [`repanel`] with the extra trailing-edge density `te_density` (≥ 0) instead of the default:
+/// 0 leaves only the curvature weighting, so the trailing-edge panels are about as long as
+/// the mid-chord ones.
+pub fn repanel_with_trailing_edge_density(
+    section: &Section,
+    panels: usize,
+    te_density: f64,
+) -> Result<Section> {
+    if !(te_density.is_finite() && te_density >= 0.0) {
+        return Err(SolverError::input(format!(
+            "te_density must be finite and non-negative, got {te_density}"
+        )));
+    }
     if !(10..=19_999).contains(&panels) {
         return Err(SolverError::input(format!(
             "panels must be between 10 and 19999, got {panels}"
@@ -43,7 +59,7 @@ pub fn repanel(section: &Section, panels: usize) -> Result<Section> {
             let s = j as f64 * ds;
             let kappa = spline.curvature(s).abs() * chord;
             let d = s.min(total - s) / chord;
-            (1.0 + kappa).sqrt() + TE_DENSITY * (-d / TE_DECAY).exp()
+            (1.0 + kappa).sqrt() + te_density * (-d / TE_DECAY).exp()
         })
         .collect();
     smooth(&mut density, 10);

@@ -9,3 +9,4 @@ fn version_is_set() {
     assert!(!wakerank_solver::VERSION.is_empty());
 }
 mod inviscid;
+mod robustness;

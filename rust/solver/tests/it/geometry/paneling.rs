@@ -1,5 +1,7 @@
 use wakerank_solver::geometry::naca::naca4;
-use wakerank_solver::geometry::paneling::{repanel, DEFAULT_PANELS};
+use wakerank_solver::geometry::paneling::{
+    repanel, repanel_with_trailing_edge_density, DEFAULT_PANELS,
+};
 
 fn half_thickness_0012(x: f64) -> f64 {
     // NACA Report 460 polynomial, open trailing edge.
@@ -50,4 +52,33 @@ fn repanel_keeps_a_blunt_trailing_edge_and_concentrates_panels() {
 fn repanel_rejects_too_few_panels() {
     let s = naca4(0.0, 0.0, 0.12, false, 50).unwrap();
     assert!(repanel(&s, 5).is_err());
+}
+
+#[test]
+fn lower_trailing_edge_density_gives_longer_trailing_edge_panels() {
+    // Common practice: the trailing-edge term only redistributes points, the outline stays.
+    let s = naca4(0.0, 0.0, 0.12, false, 201).unwrap();
+    let te_panel = |r: &wakerank_solver::geometry::Section| {
+        let n = r.len();
+        let first = (r.x[1] - r.x[0]).hypot(r.y[1] - r.y[0]);
+        let last = (r.x[n - 1] - r.x[n - 2]).hypot(r.y[n - 1] - r.y[n - 2]);
+        first.min(last)
+    };
+    let default = repanel(&s, DEFAULT_PANELS).unwrap();
+    let same = repanel_with_trailing_edge_density(&s, DEFAULT_PANELS, 4.0).unwrap();
+    assert_eq!(default, same);
+    let coarse = repanel_with_trailing_edge_density(&s, DEFAULT_PANELS, 1.0).unwrap();
+    assert_eq!(coarse.len(), DEFAULT_PANELS + 1);
+    assert_eq!((coarse.x[0], coarse.y[0]), (s.x[0], s.y[0]));
+    assert!(te_panel(&coarse) > 1.3 * te_panel(&default));
+    println!(
+        "trailing-edge panel {} -> {}",
+        te_panel(&default),
+        te_panel(&coarse)
+    );
+    let worst = (0..coarse.len())
+        .map(|i| (coarse.y[i].abs() - half_thickness_0012(coarse.x[i].clamp(0.0, 1.0))).abs())
+        .fold(0.0, f64::max);
+    assert!(worst < 1e-5, "max ordinate error {worst}");
+    assert!(repanel_with_trailing_edge_density(&s, DEFAULT_PANELS, -1.0).is_err());
 }
