@@ -8,28 +8,15 @@ from __future__ import annotations
 
 import polars as pl
 
+from wakerank.viscous import POLAR_COLUMNS
+
 #: Catalog format identifier and version, recorded in manifest.json.
 CATALOG_FORMAT = "wakerank-catalog"
 CATALOG_FORMAT_VERSION = 1
 
-#: Columns of one row of a viscous polar as :func:`wakerank.analyze` returns them.
-ANALYSIS_COLUMNS: tuple[str, ...] = (
-    "alpha_deg",
-    "cl",
-    "cd",
-    "cd_squire_young",
-    "cd_friction",
-    "cd_pressure",
-    "cm_c4",
-    "cp_min",
-    "transition_upper",
-    "transition_lower",
-    "separation_upper",
-    "separation_lower",
-    "converged",
-    "iterations",
-    "residual",
-)
+#: Columns of one row of a viscous polar as :func:`wakerank.analyze` returns them
+#: (defined once, beside the analysis that produces them).
+ANALYSIS_COLUMNS: tuple[str, ...] = POLAR_COLUMNS
 
 #: points/part-*.parquet: one row per section x condition x angle.
 POINT_SCHEMA: dict[str, pl.DataType] = {
