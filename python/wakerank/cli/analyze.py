@@ -12,12 +12,12 @@ from typing import Any, Optional
 
 import polars as pl
 import typer
-from rich.console import Console
 from rich.table import Table
 
 import wakerank as wr
 from wakerank.cli import app
 from wakerank.cli._errors import ErrorsAsMessages
+from wakerank.cli._output import table_console
 
 
 @dataclass
@@ -83,7 +83,7 @@ def print_table(table: pl.DataFrame, title: str) -> None:
     """Print the polar with rich: numbers to 4 decimals, flags as yes/no."""
     view = Table(title=title)
     for name in table.columns:
-        view.add_column(name, justify="right", overflow="fold")
+        view.add_column(name, justify="right", no_wrap=True)
     for row in table.iter_rows():
         cells = []
         for value in row:
@@ -96,7 +96,7 @@ def print_table(table: pl.DataFrame, title: str) -> None:
             else:
                 cells.append(str(value))
         view.add_row(*cells)
-    Console().print(view)
+    table_console().print(view)
 
 
 def run_analyze(spec: str, alpha: str, options: AnalyzeOptions, out: Optional[Path]) -> None:

@@ -19,7 +19,8 @@ def demo_command(
     ),
 ) -> None:
     """Screen a survey aircraft's wing sections for the least drag at cl 0.5 (a demo)."""
-    from wakerank.cli.rank import print_shortlist, table_console
+    from wakerank.cli._output import table_console
+    from wakerank.cli.rank import print_shortlist
     from wakerank.demo import DEMO_REYNOLDS, run_demo
     from wakerank.session import RunInterrupted
 

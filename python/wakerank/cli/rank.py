@@ -12,6 +12,7 @@ from rich.table import Table
 
 from wakerank.cli import app
 from wakerank.cli._errors import ErrorsAsMessages
+from wakerank.cli._output import table_console
 
 
 @app.command("rank")
@@ -80,12 +81,6 @@ def rank_command(
     print_shortlist(shortlist, targets, table_console())
     if out is not None:
         typer.echo(f"shortlist written to {out}")
-
-
-def table_console() -> Console:
-    """A console for tables: the terminal's width, or 120 columns when piped to a file."""
-    console = Console()
-    return console if console.is_terminal else Console(width=120)
 
 
 def _defaults_from_design(design: dict[str, Any]) -> dict[str, Any]:
