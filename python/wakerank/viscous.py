@@ -147,6 +147,33 @@ def viscous_polar(
     return polar_frame(columns, cond)
 
 
+def _section_and_conditions(
+    section: Any,
+    reynolds: Any,
+    mach: Any,
+    panels: Any,
+    n_factor: Any,
+    turbulence_intensity: Any,
+    trip_upper: Any,
+    trip_lower: Any,
+) -> tuple[str, np.ndarray, np.ndarray, dict[str, Any]]:
+    """(name, x, y) of the section and the checked keyword arguments of the core's viscous
+    entry points: the preparation shared by :func:`solve_for_cl` and :func:`boundary_layer`."""
+    from wakerank.analysis import check_mach, panels_argument, resolve_section
+
+    name, x, y = resolve_section(section)
+    cond = condition_keywords(
+        reynolds,
+        check_mach(mach),
+        panels_argument(panels),
+        n_factor=n_factor,
+        turbulence_intensity=turbulence_intensity,
+        trip_upper=trip_upper,
+        trip_lower=trip_lower,
+    )
+    return name, x, y, cond
+
+
 def solve_for_cl(
     section: Any,
     cl: float,
@@ -165,18 +192,9 @@ def solve_for_cl(
     Raises :class:`wakerank.ConvergenceError` when the target lies beyond the section's
     maximum (or minimum) lift at these conditions.
     """
-    from wakerank.analysis import check_mach, panels_argument, resolve_section
-
-    name, x, y = resolve_section(section)
     target = _number("cl", cl)
-    cond = condition_keywords(
-        reynolds,
-        check_mach(mach),
-        panels_argument(panels),
-        n_factor=n_factor,
-        turbulence_intensity=turbulence_intensity,
-        trip_upper=trip_upper,
-        trip_lower=trip_lower,
+    name, x, y, cond = _section_and_conditions(
+        section, reynolds, mach, panels, n_factor, turbulence_intensity, trip_upper, trip_lower
     )
     columns = _core.viscous_solve_for_cl(name, x, y, target, **cond)
     return polar_frame(columns, cond)
@@ -202,20 +220,13 @@ def boundary_layer(
     amplification (N) and regime (laminar/turbulent/wake). The table is that of the final
     iterate; ``analyze`` at the same angle tells whether it converged.
     """
-    from wakerank.analysis import check_mach, panels_argument, parse_alpha, resolve_section
+    from wakerank.analysis import parse_alpha
 
     alphas = parse_alpha(alpha_deg)
     if alphas.size != 1:
         raise InputError("boundary_layer takes one angle of attack (alpha_deg)")
-    name, x, y = resolve_section(section)
-    cond = condition_keywords(
-        reynolds,
-        check_mach(mach),
-        panels_argument(panels),
-        n_factor=n_factor,
-        turbulence_intensity=turbulence_intensity,
-        trip_upper=trip_upper,
-        trip_lower=trip_lower,
+    name, x, y, cond = _section_and_conditions(
+        section, reynolds, mach, panels, n_factor, turbulence_intensity, trip_upper, trip_lower
     )
     columns = _core.viscous_boundary_layer(name, x, y, float(alphas[0]), **cond)
     side = np.asarray(columns["side"]).astype(np.int64)
