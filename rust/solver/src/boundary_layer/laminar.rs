@@ -44,6 +44,11 @@ pub(crate) struct LaminarTerms {
 }
 
 impl LaminarTerms {
+    /// The terms not multiplying d ln ue/ds and their coefficients of d ln ue/ds, per equation.
+    pub(crate) fn parts(&self) -> ([f64; 2], [f64; 2]) {
+        (self.source, self.gradient)
+    }
+
     pub(crate) fn new(state: &LayerState, reynolds: f64, closure: &dyn LaminarClosure) -> Self {
         let (cf, cd) = laminar_coefficients(state, reynolds, closure);
         let h = state.shape_factor;

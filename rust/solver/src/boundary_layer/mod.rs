@@ -1,10 +1,11 @@
 //! Integral boundary layer: closure relations, transition, and the marching equations.
 
 pub mod interpolation;
+pub(crate) mod intervals;
 pub mod lag_entrainment;
-mod laminar;
+pub(crate) mod laminar;
 pub mod laminar_closure;
-mod local_newton;
+pub(crate) mod local_newton;
 pub mod march;
 pub mod station;
 pub mod transition;
@@ -12,5 +13,6 @@ mod transition_interval;
 pub mod wake;
 
 pub use march::march_surface;
+pub(crate) use station::LayerState;
 pub use station::{MarchSettings, Regime, SideInput, SideSolution, Station};
 pub use wake::march_wake;

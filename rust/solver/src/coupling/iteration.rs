@@ -84,6 +84,27 @@ pub(crate) struct CoupledSolution {
     pub iterations: usize,
     /// Final residual (see the module documentation).
     pub residual: f64,
+    /// The full iterate of the coupled Newton iteration, when that produced this solution:
+    /// the best warm start for a neighbouring angle.
+    pub newton_state: Option<super::newton::NewtonState>,
+}
+
+impl CoupledSolution {
+    /// What a neighbouring angle starts from.
+    pub(crate) fn warm_start(&self) -> WarmStart {
+        WarmStart {
+            mass_defect: self.mass_defect.clone(),
+            state: self.newton_state.clone(),
+        }
+    }
+}
+
+/// The warm start of a neighbouring angle: its mass defect by node, and its full iterate when
+/// the coupled Newton iteration produced it.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) struct WarmStart {
+    pub mass_defect: Vec<f64>,
+    pub state: Option<super::newton::NewtonState>,
 }
 
 /// Edge conditions of one march, owned (the march borrows them as a [`SideInput`]).
@@ -308,6 +329,7 @@ pub(crate) fn solve_case(
             converged: done,
             iterations: iteration,
             residual,
+            newton_state: None,
         });
         if done || !finite {
             break;

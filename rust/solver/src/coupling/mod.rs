@@ -16,6 +16,7 @@ mod flat_plate;
 mod forces;
 mod iteration;
 mod model;
+mod newton;
 mod settings;
 mod stagnation;
 mod sweep;

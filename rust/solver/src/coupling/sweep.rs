@@ -7,7 +7,8 @@ use crate::geometry::Section;
 use crate::inviscid::compressibility::karman_tsien_cp as karman_tsien;
 
 use super::forces::{far_wake_drag, friction_drag, integrate_pressure, squire_young};
-use super::iteration::{solve_case, CoupledSolution, CAUTIOUS, PRIMARY, STIFF};
+use super::iteration::{solve_case, CoupledSolution, WarmStart, CAUTIOUS, PRIMARY, STIFF};
+use super::newton::{CoupledProblem, NewtonState};
 use super::model::{CaseModel, SectionModel};
 use super::settings::ViscousSettings;
 use super::stagnation::{x_at_arc_length, SideNodes};
@@ -22,32 +23,73 @@ pub struct ViscousAnalysis {
     pub stations: Vec<StationRow>,
 }
 
-/// Solve one angle: from the warm start, then from no displacement, then both again with the
-/// cautious and then the stiff strategy, until one attempt converges (the last attempt is
-/// kept otherwise).
+/// Outer passes of the quasi-simultaneous iteration that give the coupled Newton iteration its
+/// first iterate when no converged neighbour is known.
+const STARTER_PASSES: usize = 20;
+
+/// Solve one angle. First the coupled Newton iteration from the warm start's full iterate;
+/// then from a first iterate made by a few passes of the quasi-simultaneous iteration; last,
+/// the quasi-simultaneous iteration on its own with its strategies (cautious, stiff). The first
+/// attempt that converges is kept, otherwise the last one.
 pub(crate) fn solve_angle(
     section: &SectionModel,
     alpha_deg: f64,
     settings: &ViscousSettings,
-    warm_start: Option<&[f64]>,
+    warm_start: Option<&WarmStart>,
 ) -> Option<(CaseModel, CoupledSolution)> {
     let case = CaseModel::new(section, alpha_deg, settings).ok()?;
+    let solution = solve_case_model(&case, settings, warm_start)?;
+    Some((case, solution))
+}
+
+fn solve_case_model(
+    case: &CaseModel,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+) -> Option<CoupledSolution> {
+    let problem = CoupledProblem::new(case, settings);
     let mut best: Option<CoupledSolution> = None;
+    if let Some(state) = warm_start.and_then(|w| w.state.as_ref()) {
+        if let Ok(solution) = problem.solve(state) {
+            if solution.converged {
+                return Some(solution);
+            }
+            best = Some(solution);
+        }
+    }
+    let warm_defect = warm_start.map(|w| w.mass_defect.as_slice());
+    let starter = ViscousSettings {
+        max_iterations: STARTER_PASSES,
+        ..settings.clone()
+    };
+    for start in [warm_defect, None] {
+        if let Ok(first) = solve_case(case, &starter, start, PRIMARY) {
+            if let Ok(solution) = problem.solve(&NewtonState::from_coupled(&first)) {
+                if solution.converged {
+                    return Some(solution);
+                }
+                best = Some(solution);
+            }
+        }
+        if warm_defect.is_none() {
+            break;
+        }
+    }
     for strategy in [PRIMARY, CAUTIOUS, STIFF] {
-        for start in [warm_start, None] {
-            if let Ok(solution) = solve_case(&case, settings, start, strategy) {
+        for start in [warm_defect, None] {
+            if let Ok(solution) = solve_case(case, settings, start, strategy) {
                 let converged = solution.converged;
                 best = Some(solution);
                 if converged {
-                    return best.map(|s| (case, s));
+                    return best;
                 }
             }
-            if warm_start.is_none() {
+            if warm_defect.is_none() {
                 break;
             }
         }
     }
-    best.map(|s| (case, s))
+    best
 }
 
 /// Smallest angle step worth subdividing when a warm start fails, degrees.
@@ -62,9 +104,9 @@ pub(crate) fn solve_with_continuation(
     section: &SectionModel,
     alpha_deg: f64,
     settings: &ViscousSettings,
-    warm: Option<&(f64, Vec<f64>)>,
+    warm: Option<&(f64, WarmStart)>,
 ) -> Option<(CaseModel, CoupledSolution)> {
-    let first = solve_angle(section, alpha_deg, settings, warm.map(|w| w.1.as_slice()));
+    let first = solve_angle(section, alpha_deg, settings, warm.map(|w| &w.1));
     if first.as_ref().is_some_and(|(_, s)| s.converged) {
         return first;
     }
@@ -81,7 +123,7 @@ pub(crate) fn solve_with_continuation(
         for k in 1..(1 << level) {
             let a = start.0 + step * k as f64;
             match solve_angle(section, a, settings, Some(&start.1)) {
-                Some((_, s)) if s.converged => start = (a, s.mass_defect),
+                Some((_, s)) if s.converged => start = (a, s.warm_start()),
                 _ => {
                     reached = false;
                     break;
@@ -131,10 +173,10 @@ pub(crate) fn sweep(
     };
     let upward: Vec<usize> = order[start..].to_vec();
     let downward: Vec<usize> = order[..start].iter().rev().copied().collect();
-    let mut start_defect: Option<(f64, Vec<f64>)> = None;
+    let mut start_defect: Option<(f64, WarmStart)> = None;
     for (pass, indices) in [upward, downward].into_iter().enumerate() {
         // The last converged angle of this pass and its mass defect (the warm start).
-        let mut warm: Option<(f64, Vec<f64>)> = if pass == 0 {
+        let mut warm: Option<(f64, WarmStart)> = if pass == 0 {
             None
         } else {
             start_defect.clone()
@@ -145,7 +187,7 @@ pub(crate) fn sweep(
                 Some((case, solution)) => {
                     let row = polar_row(&case, &solution, settings);
                     if solution.converged {
-                        warm = Some((alpha, solution.mass_defect.clone()));
+                        warm = Some((alpha, solution.warm_start()));
                         if pass == 0 && k == 0 {
                             start_defect = warm.clone();
                         }
@@ -173,16 +215,16 @@ pub fn boundary_layer_stations(
     settings.validate()?;
     let model = SectionModel::new(section, settings)?;
     let steps = (alpha_deg.abs() / 2.0).ceil() as usize;
-    let mut warm: Option<Vec<f64>> = None;
+    let mut warm: Option<WarmStart> = None;
     for k in 0..steps {
         let a = alpha_deg * k as f64 / steps as f64;
-        if let Some((_, s)) = solve_angle(&model, a, settings, warm.as_deref()) {
+        if let Some((_, s)) = solve_angle(&model, a, settings, warm.as_ref()) {
             if s.converged {
-                warm = Some(s.mass_defect);
+                warm = Some(s.warm_start());
             }
         }
     }
-    match solve_angle(&model, alpha_deg, settings, warm.as_deref()) {
+    match solve_angle(&model, alpha_deg, settings, warm.as_ref()) {
         Some((case, solution)) => Ok(ViscousAnalysis {
             row: polar_row(&case, &solution, settings),
             stations: stations(&case, &solution),

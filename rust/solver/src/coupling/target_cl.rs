@@ -36,18 +36,18 @@ pub fn solve_for_cl(
     let model = SectionModel::new(section, settings)?;
     let slope_guess = 2.0 * std::f64::consts::PI * std::f64::consts::PI / 180.0;
     let mut alpha = 0.0_f64;
-    let mut warm: Option<Vec<f64>> = None;
+    let mut warm: Option<super::iteration::WarmStart> = None;
     let mut previous: Option<(f64, f64)> = None;
     let direction = target_cl.signum();
     let mut extreme = f64::NAN;
     for _ in 0..40 {
-        let solved = solve_angle(&model, alpha, settings, warm.as_deref());
+        let solved = solve_angle(&model, alpha, settings, warm.as_ref());
         let Some((case, sol)) = solved else { break };
         let row = polar_row(&case, &sol, settings);
         if !row.converged {
             break;
         }
-        warm = Some(sol.mass_defect.clone());
+        warm = Some(sol.warm_start());
         let error = row.cl - target_cl;
         extreme = if extreme.is_nan() {
             row.cl

@@ -1,0 +1,45 @@
+//! Developer probe: one viscous α sweep with timing, for diagnosing the coupled solution.
+//! `cargo run --release -p wakerank-solver --example probe_sweep -- 0012 6e6 -6 12 1 [trip]`
+
+use std::time::Instant;
+use wakerank_solver::coupling::{analyze_viscous, ViscousSettings};
+use wakerank_solver::geometry::{coordinates::parse_coordinates, naca};
+
+fn main() {
+    let args: Vec<String> = std::env::args().collect();
+    let code = args.get(1).map_or("0012", |s| s.as_str());
+    let re: f64 = args.get(2).map_or(6e6, |s| s.parse().unwrap());
+    let a0: f64 = args.get(3).map_or(-6.0, |s| s.parse().unwrap());
+    let a1: f64 = args.get(4).map_or(12.0, |s| s.parse().unwrap());
+    let da: f64 = args.get(5).map_or(1.0, |s| s.parse().unwrap());
+    let trip = args.get(6).map(|s| s.parse::<f64>().unwrap());
+    let section = if code.ends_with(".txt") {
+        parse_coordinates(&std::fs::read_to_string(code).unwrap(), code).unwrap()
+    } else {
+        naca::from_designation(code, false, 200).unwrap()
+    };
+    let mut alphas = Vec::new();
+    let mut a = a0;
+    while a <= a1 + 1e-9 {
+        alphas.push(a);
+        a += da;
+    }
+    let settings = ViscousSettings {
+        trip_upper: trip,
+        trip_lower: trip,
+        ..ViscousSettings::new(re)
+    };
+    let t = Instant::now();
+    let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
+    let dt = t.elapsed().as_secs_f64();
+    let mut ok = 0;
+    for r in &rows {
+        ok += r.converged as usize;
+        println!(
+            "a {:6.2} cl {:8.5} cd {:9.6} sy {:9.6} f+p {:9.6} cm {:8.5} xtr {:6.4}/{:6.4} conv {} it {} res {:.1e}",
+            r.alpha_deg, r.cl, r.cd, r.cd_squire_young, r.cd_friction + r.cd_pressure, r.cm_c4,
+            r.transition_upper, r.transition_lower, r.converged, r.iterations, r.residual
+        );
+    }
+    println!("{ok}/{} converged in {dt:.2} s ({:.1} converged/s)", rows.len(), ok as f64 / dt);
+}

@@ -1,0 +1,332 @@
+//! Residuals of the integral equations of one station, written for a simultaneous solution of
+//! all stations together (the coupled Newton iteration of `coupling::newton`).
+//!
+//! A march solves station after station; a simultaneous solution instead needs, for every
+//! station, three residuals as a function of its own state and that of the station(s) it
+//! starts from, so that a Newton iteration can linearise them all at once (Drela & Giles,
+//! "Viscous-inviscid analysis of transonic and low Reynolds number airfoils", AIAA J. 25,
+//! 1987, describe this global formulation). The equations are the ones the marches use:
+//! laminar momentum and kinetic-energy integrals with the Falkner–Skan closure
+//! ([`super::laminar`]), the amplification equation dN/ds of the envelope method
+//! ([`super::transition`]), and the lag-entrainment equations ([`super::lag_entrainment`]).
+//!
+//! Each station carries three unknowns besides its edge speed: ln θ, a third variable (the
+//! amplification factor N while laminar, the entrainment coefficient CE when turbulent or in
+//! the wake) and the shape factor through the mass defect.
+
+use super::lag_entrainment::{turbulent_residuals, turbulent_start, TurbulentTerms};
+use super::laminar::{
+    laminar_residuals, stagnation_theta, LaminarTerms, LAMINAR_SHAPE_FACTOR_RANGE,
+    STAGNATION_SHAPE_FACTOR,
+};
+use super::laminar_closure::LaminarClosure;
+use super::station::LayerState;
+use super::transition::AmplificationModel;
+
+/// The closures and flow conditions every residual needs.
+#[derive(Clone, Copy)]
+pub(crate) struct EquationContext<'a> {
+    /// Chord Reynolds number.
+    pub reynolds: f64,
+    /// Critical amplification factor of free transition.
+    pub n_critical: f64,
+    /// Laminar closure (energy shape factor, friction, dissipation).
+    pub closure: &'a dyn LaminarClosure,
+    /// Envelope growth rate dN/ds.
+    pub amplification: &'a dyn AmplificationModel,
+}
+
+impl EquationContext<'_> {
+    /// dN/ds of a laminar state, never negative or non-finite.
+    pub(crate) fn growth(&self, state: &LayerState) -> f64 {
+        let g = self.amplification.growth_rate(
+            state.shape_factor,
+            self.reynolds * state.edge_velocity * state.theta,
+            state.theta,
+        );
+        if g.is_finite() {
+            g.max(0.0)
+        } else {
+            0.0
+        }
+    }
+}
+
+/// A station's state with its third variable: N while laminar (then `state.entrainment` is 0),
+/// CE when turbulent or in the wake.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct StationState {
+    pub state: LayerState,
+    pub amplification: f64,
+}
+
+/// Residuals of the first station of a side, started by the stagnation-point similarity
+/// solution (Hiemenz flow, Falkner–Skan m = 1): θ = 0.2923√(s/(Re ue)), H = 2.2162, N = 0.
+/// With `turbulent` (a trip ahead of the first station) the similarity state is made turbulent
+/// as at any transition ([`turbulent_start`]).
+pub(crate) fn start_residual(
+    ctx: &EquationContext,
+    b: &StationState,
+    s: f64,
+    turbulent: bool,
+) -> [f64; 3] {
+    let theta = stagnation_theta(s, b.state.edge_velocity, ctx.reynolds);
+    let similar = LayerState {
+        theta,
+        shape_factor: STAGNATION_SHAPE_FACTOR,
+        entrainment: 0.0,
+        edge_velocity: b.state.edge_velocity,
+    };
+    if turbulent {
+        let start = turbulent_start(&similar, ctx.reynolds);
+        [
+            (b.state.theta / start.theta).ln(),
+            b.state.shape_factor - start.shape_factor,
+            (b.state.entrainment - start.entrainment) / start.entrainment.max(1e-3),
+        ]
+    } else {
+        [
+            (b.state.theta / theta).ln(),
+            b.state.shape_factor - STAGNATION_SHAPE_FACTOR,
+            b.amplification,
+        ]
+    }
+}
+
+/// Residuals of a laminar interval a → b: momentum, kinetic energy (trapezoidal rule for
+/// `weight` 0.5, backward Euler for 1) and the amplification equation
+/// N_b − N_a = Δs (g_a + g_b)/2.
+pub(crate) fn laminar_interval_residual(
+    ctx: &EquationContext,
+    a: &StationState,
+    b: &StationState,
+    ds: f64,
+    weight: f64,
+) -> [f64; 3] {
+    let at_a = LaminarTerms::new(&a.state, ctx.reynolds, ctx.closure);
+    let [r1, r2] = laminar_residuals(
+        &a.state,
+        &at_a,
+        &b.state,
+        ds,
+        weight,
+        ctx.reynolds,
+        ctx.closure,
+    );
+    let growth = 0.5 * ds * (ctx.growth(&a.state) + ctx.growth(&b.state));
+    [r1, r2, b.amplification - a.amplification - growth]
+}
+
+/// Residuals of a turbulent interval on the wall or in the wake (momentum, entrainment, lag).
+pub(crate) fn turbulent_interval_residual(
+    ctx: &EquationContext,
+    a: &LayerState,
+    b: &LayerState,
+    ds: f64,
+    weight: f64,
+    wake: bool,
+) -> [f64; 3] {
+    let at_a = TurbulentTerms::new(a, ctx.reynolds, wake);
+    turbulent_residuals(a, &at_a, b, ds, weight, ctx.reynolds, wake)
+}
+
+/// Where, inside a transition interval, the layer becomes turbulent, and its laminar state there.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct TransitionPoint {
+    /// Fraction of the interval laminar flow covers, 0..1.
+    pub fraction: f64,
+    /// Laminar state at the transition point.
+    pub laminar: LayerState,
+    /// True when the trip, not the amplification criterion, sets the point.
+    pub forced: bool,
+    /// True when neither criterion is met inside the interval (the point is its end and the
+    /// transition belongs further downstream).
+    pub beyond: bool,
+    /// Amplification factor the laminar layer would have at the end of the interval.
+    pub amplification_at_end: f64,
+}
+
+/// Largest change of the shape factor in the explicit laminar step of a transition interval.
+const MAX_EXPLICIT_SHAPE_CHANGE: f64 = 0.5;
+/// Smallest |dH*/dH| used to turn the kinetic-energy equation into a change of H (H* has its
+/// minimum near laminar separation, where dH*/dH vanishes).
+const MIN_ENERGY_SHAPE_SLOPE: f64 = 0.05;
+
+/// Laminar state at fraction `f` of the interval a → b: one explicit (forward Euler) step of
+/// the momentum and kinetic-energy equations from a over f·Δs, with the edge speed
+/// interpolated linearly, ue = ue_a + f (ue_b − ue_a). Explicit so that it always exists and
+/// is smooth in every argument (the coupled Newton iteration differentiates it); first order
+/// over what is a part of one interval.
+pub(crate) fn laminar_at_fraction(
+    ctx: &EquationContext,
+    a: &LayerState,
+    ue_b: f64,
+    ds: f64,
+    f: f64,
+) -> LayerState {
+    let ue = a.edge_velocity + f * (ue_b - a.edge_velocity);
+    let d_log_ue = (ue_b / a.edge_velocity).ln() / ds;
+    let terms = LaminarTerms::new(a, ctx.reynolds, ctx.closure);
+    let (source, gradient) = terms.parts();
+    let step = f * ds;
+    let ln_theta = a.theta.ln() + step * (source[0] + gradient[0] * d_log_ue);
+    let energy_change = step * (source[1] + gradient[1] * d_log_ue);
+    let h = a.shape_factor;
+    let slope = (ctx.closure.energy_shape_factor(h + 1e-4)
+        - ctx.closure.energy_shape_factor(h - 1e-4))
+        / 2e-4;
+    let slope = if slope.abs() < MIN_ENERGY_SHAPE_SLOPE {
+        MIN_ENERGY_SHAPE_SLOPE.copysign(slope)
+    } else {
+        slope
+    };
+    let dh = (energy_change / slope).clamp(-MAX_EXPLICIT_SHAPE_CHANGE, MAX_EXPLICIT_SHAPE_CHANGE);
+    LayerState {
+        theta: ln_theta.exp(),
+        shape_factor: (h + dh).clamp(LAMINAR_SHAPE_FACTOR_RANGE.0, LAMINAR_SHAPE_FACTOR_RANGE.1),
+        entrainment: 0.0,
+        edge_velocity: ue,
+    }
+}
+
+/// Iterations of the root search for the transition point (Illinois false position).
+const ROOT_ITERATIONS: usize = 60;
+
+/// Locates transition inside the interval [sa, sb] that starts from the laminar state `a`
+/// (amplification `n_a`) and ends at edge speed `ue_b`: the trip `trip_s` or the point where
+/// N_a + f Δs (g_a + g_t)/2 reaches the critical N (g_t the growth rate of the laminar state at
+/// fraction f, [`laminar_at_fraction`]), whichever comes first. The same amplification at the
+/// interval's end decides whether transition belongs in this interval at all, so moving it
+/// between intervals cannot cycle.
+pub(crate) fn transition_point(
+    ctx: &EquationContext,
+    a: &StationState,
+    ue_b: f64,
+    sa: f64,
+    sb: f64,
+    trip_s: Option<f64>,
+) -> TransitionPoint {
+    let ds = sb - sa;
+    let n_a = a.amplification;
+    let g_a = ctx.growth(&a.state);
+    let amplification_at = |f: f64| {
+        let t = laminar_at_fraction(ctx, &a.state, ue_b, ds, f);
+        n_a + 0.5 * f * ds * (g_a + ctx.growth(&t))
+    };
+    let n_end = amplification_at(1.0);
+    let trip_fraction = trip_s
+        .filter(|&t| t <= sb)
+        .map(|t| ((t - sa) / ds).clamp(0.0, 1.0));
+    let free_fraction = if n_a >= ctx.n_critical {
+        Some(0.0)
+    } else if n_end >= ctx.n_critical {
+        // Illinois false position on N(f) − N_crit over [0, 1].
+        let (mut lo, mut hi) = (0.0_f64, 1.0_f64);
+        let (mut r_lo, mut r_hi) = (n_a - ctx.n_critical, n_end - ctx.n_critical);
+        let mut side = 0;
+        let mut f = 1.0;
+        for _ in 0..ROOT_ITERATIONS {
+            f = if r_hi != r_lo {
+                (lo * r_hi - hi * r_lo) / (r_hi - r_lo)
+            } else {
+                0.5 * (lo + hi)
+            };
+            let r = amplification_at(f) - ctx.n_critical;
+            if r.abs() < 1e-14 || hi - lo < 1e-15 {
+                break;
+            }
+            if (r > 0.0) == (r_hi > 0.0) {
+                hi = f;
+                r_hi = r;
+                if side == 1 {
+                    r_lo *= 0.5;
+                }
+                side = 1;
+            } else {
+                lo = f;
+                r_lo = r;
+                if side == -1 {
+                    r_hi *= 0.5;
+                }
+                side = -1;
+            }
+        }
+        Some(f.clamp(0.0, 1.0))
+    } else {
+        None
+    };
+    let (fraction, forced, beyond) = match (free_fraction, trip_fraction) {
+        (Some(f), Some(t)) if t < f => (t, true, false),
+        (Some(f), _) => (f, false, false),
+        (None, Some(t)) => (t, true, false),
+        (None, None) => (1.0, false, true),
+    };
+    TransitionPoint {
+        fraction,
+        laminar: laminar_at_fraction(ctx, &a.state, ue_b, ds, fraction),
+        forced,
+        beyond,
+        amplification_at_end: n_end,
+    }
+}
+
+/// Residuals of a transition interval a (laminar) → b (turbulent): laminar up to the
+/// transition point (see [`transition_point`]), then the turbulent equations from the
+/// turbulent start of that state ([`turbulent_start`]) to b. Continuous as the point moves to
+/// either end of the interval.
+pub(crate) fn transition_interval_residual(
+    ctx: &EquationContext,
+    a: &StationState,
+    b: &StationState,
+    sa: f64,
+    sb: f64,
+    trip_s: Option<f64>,
+    weight: f64,
+) -> ([f64; 3], TransitionPoint) {
+    let point = transition_point(ctx, a, b.state.edge_velocity, sa, sb, trip_s);
+    let start = turbulent_start(&point.laminar, ctx.reynolds);
+    let rest = (1.0 - point.fraction) * (sb - sa);
+    let r = turbulent_interval_residual(ctx, &start, &b.state, rest, weight, false);
+    (r, point)
+}
+
+/// The wake's first state, merged from the two trailing-edge states: θ = θu + θl,
+/// δ* = δ*u + δ*l, the mass defect continuous (ue = (ue_u δ*u + ue_l δ*l)/(δ*u + δ*l)), CE the
+/// θ-weighted mean of the two sides' (zero from a laminar side).
+pub(crate) fn merged_wake_start(upper: &LayerState, lower: &LayerState) -> LayerState {
+    let theta = upper.theta + lower.theta;
+    let (du, dl) = (
+        upper.theta * upper.shape_factor,
+        lower.theta * lower.shape_factor,
+    );
+    let delta_star = du + dl;
+    let edge_velocity = if delta_star > 0.0 {
+        (upper.edge_velocity * du + lower.edge_velocity * dl) / delta_star
+    } else {
+        0.5 * (upper.edge_velocity + lower.edge_velocity)
+    };
+    LayerState {
+        theta,
+        shape_factor: delta_star / theta,
+        entrainment: (upper.theta * upper.entrainment + lower.theta * lower.entrainment) / theta,
+        edge_velocity,
+    }
+}
+
+/// How fast the integration rule of an interval moves from the trapezoidal rule towards
+/// backward Euler as the shape factor changes between its ends (our choice: a 10 % change
+/// gives weight 0.61, a 40 % change 0.98).
+const UPWIND_SENSITIVITY: f64 = 25.0;
+
+/// Weight of the end state in an interval's integration rule: 0.5 (trapezoidal, second order)
+/// where the shape factor changes little between the stations, rising smoothly to 1 (backward
+/// Euler) where it changes fast. The trapezoidal rule leaves the odd–even (saw-tooth) mode of
+/// nearly algebraic stretches of the equations undamped; weighting towards the downstream end
+/// damps it (hybrid differencing, common practice).
+pub(crate) fn upwinded_weight(h_a: f64, h_b: f64) -> f64 {
+    let r = (h_b / h_a).ln();
+    if !r.is_finite() {
+        return 1.0;
+    }
+    1.0 - 0.5 * (-UPWIND_SENSITIVITY * r * r).exp()
+}

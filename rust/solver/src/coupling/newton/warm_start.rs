@@ -1,0 +1,176 @@
+//! The iterate kept between neighbouring angles, and how it is mapped onto the stations of a
+//! new case: by arc length from the stagnation point on each side (the boundary layer near the
+//! leading edge depends on the distance from the stagnation point, which moves with the angle),
+//! by position in the wake.
+
+use crate::boundary_layer::laminar::{stagnation_theta, STAGNATION_SHAPE_FACTOR};
+use crate::boundary_layer::Regime;
+
+use super::super::iteration::CoupledSolution;
+use super::layout::{Layout, Role};
+use super::Unknowns;
+
+/// Fixed-point passes that set the mass defects of a mapped state from its θ and H.
+const MAPPING_PASSES: usize = 4;
+
+/// The states along one side (or the wake), ordered downstream.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub(crate) struct SideProfile {
+    pub s: Vec<f64>,
+    pub ln_theta: Vec<f64>,
+    pub shape_factor: Vec<f64>,
+    /// N while laminar, CE when turbulent or in the wake.
+    pub third: Vec<f64>,
+    pub regime: Vec<Regime>,
+}
+
+impl SideProfile {
+    fn push(&mut self, s: f64, ln_theta: f64, shape_factor: f64, third: f64, regime: Regime) {
+        if ln_theta.is_finite() && shape_factor.is_finite() && third.is_finite() {
+            self.s.push(s);
+            self.ln_theta.push(ln_theta);
+            self.shape_factor.push(shape_factor);
+            self.third.push(third);
+            self.regime.push(regime);
+        }
+    }
+
+    /// State at arc length `s`: linear between the two stations around it when they share a
+    /// regime, the nearer one's otherwise, the end ones' outside.
+    fn at(&self, s: f64) -> Option<(f64, f64, f64, Regime)> {
+        let n = self.s.len();
+        if n == 0 {
+            return None;
+        }
+        let take = |i: usize| {
+            Some((
+                self.ln_theta[i],
+                self.shape_factor[i],
+                self.third[i],
+                self.regime[i],
+            ))
+        };
+        let upper = self.s.partition_point(|&v| v <= s);
+        if upper == 0 {
+            return take(0);
+        }
+        if upper == n {
+            return take(n - 1);
+        }
+        let (i, j) = (upper - 1, upper);
+        let t = (s - self.s[i]) / (self.s[j] - self.s[i]).max(1e-300);
+        if self.regime[i] != self.regime[j] {
+            return take(if t < 0.5 { i } else { j });
+        }
+        let lerp = |a: &[f64]| a[i] + t * (a[j] - a[i]);
+        Some((
+            lerp(&self.ln_theta),
+            lerp(&self.shape_factor),
+            lerp(&self.third),
+            self.regime[i],
+        ))
+    }
+}
+
+/// A complete iterate: the warm start of a neighbouring angle.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub(crate) struct NewtonState {
+    /// Upper side, lower side, wake.
+    pub sides: [SideProfile; 3],
+    /// Last node on the upper side.
+    pub stagnation_node: usize,
+    /// Mass defect of every case node.
+    pub node_mass_defect: Vec<f64>,
+}
+
+impl NewtonState {
+    /// The state of a solution of either iteration (the quasi-simultaneous one gives the
+    /// coupled Newton iteration its first iterate).
+    pub(crate) fn from_coupled(sol: &CoupledSolution) -> Self {
+        let mut sides: [SideProfile; 3] = Default::default();
+        for (profile, side) in sides.iter_mut().zip([&sol.upper, &sol.lower, &sol.wake]) {
+            for st in &side.stations {
+                let third = if st.regime == Regime::Laminar {
+                    st.amplification
+                } else {
+                    st.shear_lag
+                };
+                profile.push(st.s, st.theta.ln(), st.shape_factor, third, st.regime);
+            }
+        }
+        NewtonState {
+            sides,
+            stagnation_node: sol.split.stagnation.node,
+            node_mass_defect: sol.mass_defect.clone(),
+        }
+    }
+
+    /// The unknowns of `layout` from this state, with consistent regimes: each side laminar
+    /// from its start, turbulent from its first turbulent station on. `ue_of` gives the edge
+    /// speeds of a mass-defect vector; `make_turbulent` converts a station.
+    pub(crate) fn unknowns_for(
+        &self,
+        layout: &Layout,
+        reynolds: f64,
+        mut make_turbulent: impl FnMut(&mut Unknowns, &[f64], usize),
+    ) -> Unknowns {
+        let k_total = layout.len();
+        let mut unknowns = Unknowns {
+            ln_theta: vec![0.0; k_total],
+            third: vec![0.0; k_total],
+            m: vec![0.0; k_total],
+            regime: vec![Regime::Laminar; k_total],
+        };
+        let mut shape = vec![2.0; k_total];
+        for k in 0..k_total {
+            let side = layout.side_of(k);
+            let wake = side == 2;
+            let (ln_theta, h, third, regime) = self.sides[side].at(layout.s[k]).unwrap_or((
+                (1e-3_f64).ln(),
+                2.0,
+                if wake { 0.02 } else { 0.0 },
+                Regime::Laminar,
+            ));
+            unknowns.ln_theta[k] = ln_theta;
+            unknowns.third[k] = third;
+            unknowns.regime[k] = if wake { Regime::Wake } else { regime };
+            shape[k] = h;
+            unknowns.m[k] = self
+                .node_mass_defect
+                .get(layout.nodes[k])
+                .copied()
+                .filter(|v| v.is_finite() && *v > 0.0)
+                .unwrap_or(1e-4);
+        }
+        // Shape factor and θ kept at each station's edge speed (a few fixed-point passes, as
+        // the edge speeds move with the mass defects); a side's first station starts from the
+        // similarity solution.
+        for _ in 0..MAPPING_PASSES {
+            let ue = layout.edge_speeds(&unknowns.m);
+            for k in 0..k_total {
+                let u = ue[k].max(1e-3);
+                if layout.role[k] == Role::Start && unknowns.regime[k] == Regime::Laminar {
+                    let theta = stagnation_theta(layout.s[k], u, reynolds);
+                    unknowns.ln_theta[k] = theta.ln();
+                    unknowns.third[k] = 0.0;
+                    shape[k] = STAGNATION_SHAPE_FACTOR;
+                }
+                unknowns.m[k] = shape[k] * unknowns.ln_theta[k].exp() * u;
+            }
+        }
+        let ue = layout.edge_speeds(&unknowns.m);
+        for range in [layout.upper.clone(), layout.lower.clone()] {
+            if let Some(t) = range
+                .clone()
+                .find(|&k| unknowns.regime[k] != Regime::Laminar)
+            {
+                for k in t..range.end {
+                    if unknowns.regime[k] == Regime::Laminar {
+                        make_turbulent(&mut unknowns, &ue, k);
+                    }
+                }
+            }
+        }
+        unknowns
+    }
+}
