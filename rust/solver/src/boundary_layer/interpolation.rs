@@ -70,6 +70,10 @@ impl MonotoneCubic {
     /// Value and first derivative at `t` (the derivative is continuous everywhere).
     pub fn value_and_derivative(&self, t: f64) -> (f64, f64) {
         let n = self.x.len();
+        if t.is_nan() {
+            // Never index with NaN: the caller sees NaN and flags its result.
+            return (f64::NAN, f64::NAN);
+        }
         if t <= self.x[0] {
             return saturating(self.y[0], self.slope[0], self.low_width, t - self.x[0]);
         }

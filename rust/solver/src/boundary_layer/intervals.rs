@@ -61,16 +61,18 @@ pub(crate) struct StationState {
 }
 
 /// Residuals of the first station of a side, started by the stagnation-point similarity
-/// solution (Hiemenz flow, Falkner–Skan m = 1): θ = 0.2923√(s/(Re ue)), H = 2.2162, N = 0.
-/// With `turbulent` (a trip ahead of the first station) the similarity state is made turbulent
-/// as at any transition ([`turbulent_start`]).
+/// solution (Hiemenz flow, Falkner–Skan m = 1): θ = 0.2923√(ν/K), H = 2.2162, N = 0, with the
+/// velocity gradient K = `gradient_ue`/`gradient_s`. With `turbulent` (a trip ahead of the
+/// first station) the similarity state is made turbulent as at any transition
+/// ([`turbulent_start`]).
 pub(crate) fn start_residual(
     ctx: &EquationContext,
     b: &StationState,
-    s: f64,
+    gradient_s: f64,
+    gradient_ue: f64,
     turbulent: bool,
 ) -> [f64; 3] {
-    let theta = stagnation_theta(s, b.state.edge_velocity, ctx.reynolds);
+    let theta = stagnation_theta(gradient_s, gradient_ue, ctx.reynolds);
     let similar = LayerState {
         theta,
         shape_factor: STAGNATION_SHAPE_FACTOR,
@@ -152,11 +154,33 @@ const MAX_EXPLICIT_SHAPE_CHANGE: f64 = 0.5;
 /// minimum near laminar separation, where dH*/dH vanishes).
 const MIN_ENERGY_SHAPE_SLOPE: f64 = 0.05;
 
-/// Laminar state at fraction `f` of the interval a → b: one explicit (forward Euler) step of
-/// the momentum and kinetic-energy equations from a over f·Δs, with the edge speed
-/// interpolated linearly, ue = ue_a + f (ue_b − ue_a). Explicit so that it always exists and
-/// is smooth in every argument (the coupled Newton iteration differentiates it); first order
-/// over what is a part of one interval.
+/// Rates of change along s of ln θ and of H from the laminar momentum and kinetic-energy
+/// equations at `state`, for a given d ln ue/ds (dH/ds = (dH*/ds)/(dH*/dH), with |dH*/dH| kept
+/// above MIN_ENERGY_SHAPE_SLOPE).
+fn laminar_rates(ctx: &EquationContext, state: &LayerState, d_log_ue: f64) -> (f64, f64) {
+    let terms = LaminarTerms::new(state, ctx.reynolds, ctx.closure);
+    let (source, gradient) = terms.parts();
+    let h = state.shape_factor;
+    let slope = (ctx.closure.energy_shape_factor(h + 1e-4)
+        - ctx.closure.energy_shape_factor(h - 1e-4))
+        / 2e-4;
+    let slope = if slope.abs() < MIN_ENERGY_SHAPE_SLOPE {
+        MIN_ENERGY_SHAPE_SLOPE.copysign(slope)
+    } else {
+        slope
+    };
+    (
+        source[0] + gradient[0] * d_log_ue,
+        (source[1] + gradient[1] * d_log_ue) / slope,
+    )
+}
+
+/// Laminar state at fraction `f` of the interval a → b: one explicit Heun (second-order
+/// Runge–Kutta) step of the momentum and kinetic-energy equations from a over f·Δs, with the
+/// edge speed interpolated linearly, ue = ue_a + f (ue_b − ue_a). Explicit so that it always
+/// exists and is smooth in every argument (the coupled Newton iteration differentiates it);
+/// second order, like the trapezoidal rule of the laminar intervals, so the state it gives at
+/// the interval's end is close to the one a laminar interval would have there.
 pub(crate) fn laminar_at_fraction(
     ctx: &EquationContext,
     a: &LayerState,
@@ -166,24 +190,20 @@ pub(crate) fn laminar_at_fraction(
 ) -> LayerState {
     let ue = a.edge_velocity + f * (ue_b - a.edge_velocity);
     let d_log_ue = (ue_b / a.edge_velocity).ln() / ds;
-    let terms = LaminarTerms::new(a, ctx.reynolds, ctx.closure);
-    let (source, gradient) = terms.parts();
     let step = f * ds;
-    let ln_theta = a.theta.ln() + step * (source[0] + gradient[0] * d_log_ue);
-    let energy_change = step * (source[1] + gradient[1] * d_log_ue);
-    let h = a.shape_factor;
-    let slope = (ctx.closure.energy_shape_factor(h + 1e-4)
-        - ctx.closure.energy_shape_factor(h - 1e-4))
-        / 2e-4;
-    let slope = if slope.abs() < MIN_ENERGY_SHAPE_SLOPE {
-        MIN_ENERGY_SHAPE_SLOPE.copysign(slope)
-    } else {
-        slope
+    let limit = |dh: f64| dh.clamp(-MAX_EXPLICIT_SHAPE_CHANGE, MAX_EXPLICIT_SHAPE_CHANGE);
+    let bounded = |h: f64| h.clamp(LAMINAR_SHAPE_FACTOR_RANGE.0, LAMINAR_SHAPE_FACTOR_RANGE.1);
+    let (r_theta, r_h) = laminar_rates(ctx, a, d_log_ue);
+    let predictor = LayerState {
+        theta: (a.theta.ln() + step * r_theta).exp(),
+        shape_factor: bounded(a.shape_factor + limit(step * r_h)),
+        entrainment: 0.0,
+        edge_velocity: ue,
     };
-    let dh = (energy_change / slope).clamp(-MAX_EXPLICIT_SHAPE_CHANGE, MAX_EXPLICIT_SHAPE_CHANGE);
+    let (p_theta, p_h) = laminar_rates(ctx, &predictor, d_log_ue);
     LayerState {
-        theta: ln_theta.exp(),
-        shape_factor: (h + dh).clamp(LAMINAR_SHAPE_FACTOR_RANGE.0, LAMINAR_SHAPE_FACTOR_RANGE.1),
+        theta: (a.theta.ln() + 0.5 * step * (r_theta + p_theta)).exp(),
+        shape_factor: bounded(a.shape_factor + limit(0.5 * step * (r_h + p_h))),
         entrainment: 0.0,
         edge_velocity: ue,
     }
@@ -286,6 +306,7 @@ pub(crate) fn transition_interval_residual(
     let point = transition_point(ctx, a, b.state.edge_velocity, sa, sb, trip_s);
     let start = turbulent_start(&point.laminar, ctx.reynolds);
     let rest = (1.0 - point.fraction) * (sb - sa);
+    let weight = weight.max(upwinded_weight(start.shape_factor, b.state.shape_factor));
     let r = turbulent_interval_residual(ctx, &start, &b.state, rest, weight, false);
     (r, point)
 }

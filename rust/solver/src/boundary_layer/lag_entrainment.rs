@@ -36,7 +36,9 @@ pub(crate) fn dissipation_length_factor(wake: bool) -> f64 {
 
 /// Entrainment shape factor H1 = (δ − δ*)/θ = 3.15 + 1.72/(H − 1) − 0.01(H − 1)² (GWB 1977).
 pub fn entrainment_shape_factor(h: f64) -> f64 {
-    let hm1 = (h - 1.0).max(1e-4);
+    // Our guard: beyond H − 1 = 12 (far outside the range the fit was made for) the quadratic
+    // term would turn H1 negative, so the argument is held there.
+    let hm1 = (h - 1.0).clamp(1e-4, 12.0);
     3.15 + 1.72 / hm1 - 0.01 * hm1 * hm1
 }
 

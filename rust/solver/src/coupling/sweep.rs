@@ -49,12 +49,18 @@ fn solve_case_model(
 ) -> Option<CoupledSolution> {
     let problem = CoupledProblem::new(case, settings);
     let mut best: Option<CoupledSolution> = None;
+    let mut keep = |solution: CoupledSolution, best: &mut Option<CoupledSolution>| {
+        let converged = solution.converged;
+        if converged || best.as_ref().is_none_or(|b| !b.converged) {
+            *best = Some(solution);
+        }
+        converged
+    };
     if let Some(state) = warm_start.and_then(|w| w.state.as_ref()) {
         if let Ok(solution) = problem.solve(state) {
-            if solution.converged {
-                return Some(solution);
+            if keep(solution, &mut best) {
+                return best;
             }
-            best = Some(solution);
         }
     }
     let warm_defect = warm_start.map(|w| w.mass_defect.as_slice());
@@ -62,25 +68,21 @@ fn solve_case_model(
         max_iterations: STARTER_PASSES,
         ..settings.clone()
     };
-    for start in [warm_defect, None] {
-        if let Ok(first) = solve_case(case, &starter, start, PRIMARY) {
-            if let Ok(solution) = problem.solve(&NewtonState::from_coupled(&first)) {
-                if solution.converged {
-                    return Some(solution);
-                }
-                best = Some(solution);
-            }
-        }
-        if warm_defect.is_none() {
-            break;
-        }
-    }
-    for strategy in [PRIMARY, CAUTIOUS, STIFF] {
+    // Each quasi-simultaneous attempt, converged or not, is finished by the Newton iteration.
+    let attempts = [(&starter, PRIMARY), (settings, PRIMARY), (settings, CAUTIOUS), (settings, STIFF)];
+    for (attempt_settings, strategy) in attempts {
         for start in [warm_defect, None] {
-            if let Ok(solution) = solve_case(case, settings, start, strategy) {
-                let converged = solution.converged;
-                best = Some(solution);
-                if converged {
+            if let Ok(first) = solve_case(case, attempt_settings, start, strategy) {
+                let first_converged = first.converged;
+                if let Ok(solution) = problem.solve(&NewtonState::from_coupled(&first)) {
+                    if keep(solution, &mut best) {
+                        return best;
+                    }
+                }
+                if keep(first, &mut best) {
+                    return best;
+                }
+                if first_converged {
                     return best;
                 }
             }

@@ -152,7 +152,7 @@ pub(crate) fn solve_step(
     if !mass.iter().all(|v| v.is_finite()) {
         return None;
     }
-    let local = (0..k_total)
+    let local: Vec<[f64; 2]> = (0..k_total)
         .map(|k| {
             let mut z = offset[k];
             for (c, zc) in z.iter_mut().enumerate() {
@@ -162,6 +162,9 @@ pub(crate) fn solve_step(
             z
         })
         .collect();
+    if !local.iter().all(|z| z[0].is_finite() && z[1].is_finite()) {
+        return None;
+    }
     Some(Corrections { local, mass })
 }
 

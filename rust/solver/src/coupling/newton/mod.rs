@@ -28,6 +28,7 @@ use crate::boundary_layer::lag_entrainment::{
     turbulent_start, ENTRAINMENT_RANGE, TURBULENT_SHAPE_FACTOR_RANGE, WAKE_SHAPE_FACTOR_RANGE,
 };
 use crate::boundary_layer::laminar_closure::FalknerSkanClosure;
+use crate::boundary_layer::march::{laminar_step, EdgeCondition, StepMemory};
 use crate::boundary_layer::transition::OrrSommerfeldEnvelope;
 use crate::boundary_layer::{LayerState, Regime};
 use crate::error::Result;
@@ -47,15 +48,28 @@ pub(crate) const NEWTON_TOLERANCE: f64 = 1e-8;
 /// make transition hop back and forth.
 const REGIME_MOVE_RESIDUAL: f64 = 1e-3;
 /// Most stations transition moves downstream in one regime update.
-const MAX_DOWNSTREAM_MOVE: usize = 8;
+const MAX_DOWNSTREAM_MOVE: usize = 40;
 /// Halvings of a Newton step tried when it does not reduce the residual.
 const LINE_SEARCH_HALVINGS: usize = 4;
+/// Every this many iterations transition may move even when the iterate has not settled (an
+/// iterate that cannot settle with transition in the wrong interval would otherwise never
+/// move it).
+const FORCED_REGIME_UPDATE: usize = 6;
+/// ... but only from an iterate whose residual is below this.
+const FORCED_MOVE_RESIDUAL: f64 = 0.1;
 /// Cap on the Newton iterations of one case.
 const MAX_NEWTON_ITERATIONS: usize = 40;
 /// Largest change of ln θ in one step.
 const MAX_LOG_THETA_STEP: f64 = 0.4;
 /// Largest relative change of the mass defect and of the shape factor in one step.
 const MAX_RELATIVE_STEP: f64 = 0.35;
+/// Largest shape factor the residuals are evaluated at (keeps a wild first iterate, with an
+/// edge speed near zero at the trailing edge, finite).
+const MAX_EVALUATED_SHAPE_FACTOR: f64 = 40.0;
+/// Edge speed below which a station counts as near a stagnation point for the step limits.
+const NEAR_STAGNATION_SPEED: f64 = 0.3;
+/// Largest change of CE in one step where CE itself is small.
+const MAX_ENTRAINMENT_STEP: f64 = 0.02;
 /// Lower bound of the laminar shape factor kept by the update (the closure's attached range
 /// starts near 2.0 at strong acceleration).
 const LAMINAR_MIN_SHAPE_FACTOR: f64 = 1.9;
@@ -102,7 +116,7 @@ fn norm_squared(r: &[f64; 3]) -> f64 {
 fn station_state(v: &NodeVars, regime: Regime) -> StationState {
     let ue = v.ue.max(1e-6);
     let theta = v.ln_theta.exp();
-    let h = (v.m / (ue * theta)).max(1.0005);
+    let h = (v.m / (ue * theta)).clamp(1.0005, MAX_EVALUATED_SHAPE_FACTOR);
     let laminar = regime == Regime::Laminar;
     StationState {
         state: LayerState {
@@ -141,7 +155,16 @@ impl<'a> CoupledProblem<'a> {
     /// Stations a station's residuals depend on: itself first.
     fn involved(&self, layout: &Layout, k: usize) -> ([usize; 3], usize) {
         match layout.role[k] {
-            Role::Start => ([k, k, k], 1),
+            // The velocity gradient at the stagnation point comes from both sides' first
+            // stations (see `residual`).
+            Role::Start => {
+                let other = if layout.upper.start == k {
+                    layout.lower.start
+                } else {
+                    layout.upper.start
+                };
+                ([k, other, k], 2)
+            }
             Role::Interval => ([k, k - 1, k], 2),
             Role::WakeFirst => {
                 let [u, l] = layout.trailing_edges();
@@ -180,10 +203,24 @@ impl<'a> CoupledProblem<'a> {
         let b = station_state(&vars[0], regime(0));
         let w = self.weight(layout, k);
         match layout.role[k] {
-            Role::Start => (
-                start_residual(ctx, &b, layout.s[k], regime(0) != Regime::Laminar),
-                None,
-            ),
+            Role::Start => {
+                // Hiemenz flow: ue = K·s on both sides of the stagnation point, so
+                // K = (ue_upper + ue_lower)/(s_upper + s_lower) over the two first stations,
+                // whose arc-length sum does not depend on where the point lies between them.
+                let other = involved[1];
+                let gradient_s = layout.s[k] + layout.s[other];
+                let gradient_ue = vars[0].ue.max(1e-9) + vars[1].ue.max(1e-9);
+                (
+                    start_residual(
+                        ctx,
+                        &b,
+                        gradient_s,
+                        gradient_ue,
+                        regime(0) != Regime::Laminar,
+                    ),
+                    None,
+                )
+            }
             Role::WakeFirst => {
                 let upper = station_state(&vars[1], regime(1)).state;
                 let lower = station_state(&vars[2], regime(2)).state;
@@ -198,10 +235,10 @@ impl<'a> CoupledProblem<'a> {
             Role::Interval => {
                 let a = station_state(&vars[1], regime(1));
                 let (sa, sb) = (layout.s[k - 1], layout.s[k]);
-                let w = w.max(upwinded_weight(a.state.shape_factor, b.state.shape_factor));
+                let upwinded = w.max(upwinded_weight(a.state.shape_factor, b.state.shape_factor));
                 match (regime(1), regime(0)) {
                     (Regime::Laminar, Regime::Laminar) => {
-                        (laminar_interval_residual(ctx, &a, &b, sb - sa, w), None)
+                        (laminar_interval_residual(ctx, &a, &b, sb - sa, upwinded), None)
                     }
                     (Regime::Laminar, _) => {
                         let trip = layout.trips[layout.side_of(k).min(1)];
@@ -215,7 +252,7 @@ impl<'a> CoupledProblem<'a> {
                             &a.state,
                             &b.state,
                             sb - sa,
-                            w,
+                            upwinded,
                             r == Regime::Wake,
                         ),
                         None,
@@ -327,6 +364,18 @@ impl CoupledProblem<'_> {
         let guess_stag = start.stagnation_node.min(ns.saturating_sub(2));
         let mut layout = self.layout_for(&m_start, guess_stag)?;
         let mut unknowns = self.map_state(&layout, start);
+        // The mapped mass defects move the stagnation point a little: settle the split.
+        for _ in 0..3 {
+            let m_full = layout.node_mass_defect(case, &unknowns.m);
+            let settled = self.layout_for(&m_full, layout.split.stagnation.node)?;
+            if settled.split.upper.nodes == layout.split.upper.nodes
+                && settled.split.lower.nodes == layout.split.lower.nodes
+            {
+                break;
+            }
+            layout = settled;
+            unknowns = self.map_state(&layout, start);
+        }
         let mut residual = f64::INFINITY;
         let mut converged = false;
         let mut iterations = 0;
@@ -348,11 +397,21 @@ impl CoupledProblem<'_> {
                 lins.push(lin);
             }
             if !finite {
+                if std::env::var_os("WAKERANK_TRACE").is_some() {
+                    for (k, l) in lins.iter().enumerate() {
+                        if !l.residual.iter().all(|v| v.is_finite()) {
+                            let st = self.layer_state(&unknowns, &ue, k);
+                            eprintln!("non-finite at {k} {:?} {:?} {st:?} s {}", unknowns.regime[k], l.residual, layout.s[k]);
+                        }
+                    }
+                }
                 residual = f64::NAN;
                 break;
             }
-            let moved = residual < REGIME_MOVE_RESIDUAL
-                && self.update_regimes(&layout, &mut unknowns, &ue, &points);
+            let settled = residual < REGIME_MOVE_RESIDUAL;
+            let forced = iteration % FORCED_REGIME_UPDATE == 0 && residual < FORCED_MOVE_RESIDUAL;
+            let moved = (settled || forced)
+                && self.update_regimes(&layout, &mut unknowns, &ue, &points, settled);
             if std::env::var_os("WAKERANK_TRACE").is_some() {
                 let worst = lins
                     .iter()
@@ -478,14 +537,15 @@ impl CoupledProblem<'_> {
     }
 
     /// Moves transition by the amplification factor of the iterate: upstream to the first
-    /// laminar station at or past the critical N (or the trip), downstream by one station when
-    /// the transition interval holds neither. Returns whether anything moved.
+    /// interval that reaches the critical N (or holds the trip); with `allow_downstream`, also
+    /// downstream while the transition interval holds neither. Returns whether anything moved.
     fn update_regimes(
         &self,
         layout: &Layout,
         unknowns: &mut Unknowns,
         ue: &[f64],
         points: &[Option<TransitionPoint>],
+        allow_downstream: bool,
     ) -> bool {
         let mut moved = false;
         for (side, range) in [layout.upper.clone(), layout.lower.clone()]
@@ -511,47 +571,103 @@ impl CoupledProblem<'_> {
                 !transition_point(&self.ctx, &a, ue[j], layout.s[j - 1], layout.s[j], trip).beyond
             });
             if let Some(j) = early {
-                for k in j..t {
-                    self.make_turbulent(unknowns, ue, k);
+                // The stations between the new transition and the old turbulent layer start
+                // between the turbulent start at j and the old first turbulent state.
+                self.make_turbulent(unknowns, ue, j);
+                if t < range.end {
+                    let anchor = self.layer_state(unknowns, ue, t);
+                    let begin = self.layer_state(unknowns, ue, j);
+                    let (ce_begin, ce_anchor) = (unknowns.third[j], unknowns.third[t]);
+                    for k in j + 1..t {
+                        let w = (layout.s[k] - layout.s[j]) / (layout.s[t] - layout.s[j]);
+                        let ln_theta = begin.theta.ln() + w * (anchor.theta / begin.theta).ln();
+                        let h = begin.shape_factor + w * (anchor.shape_factor - begin.shape_factor);
+                        unknowns.regime[k] = Regime::Turbulent;
+                        unknowns.ln_theta[k] = ln_theta;
+                        unknowns.third[k] = ce_begin + w * (ce_anchor - ce_begin);
+                        unknowns.m[k] = h * ln_theta.exp() * ue[k].max(1e-6);
+                    }
+                } else {
+                    for k in j + 1..t {
+                        self.make_turbulent(unknowns, ue, k);
+                    }
                 }
                 moved = true;
-            } else if t > range.start && t < range.end {
-                if let Some(point) = points[t].filter(|p| p.beyond) {
-                    // Laminar to the end of this interval; further while the next intervals,
-                    // from the explicit laminar estimate, hold no transition either.
-                    let mut k = t;
-                    let mut point = point;
-                    loop {
-                        let lam = point.laminar;
-                        unknowns.regime[k] = Regime::Laminar;
-                        unknowns.third[k] = point.amplification_at_end;
-                        unknowns.ln_theta[k] = lam.theta.ln();
-                        unknowns.m[k] = lam.theta * lam.shape_factor * ue[k].max(1e-6);
-                        k += 1;
-                        if k >= range.end || k - t >= MAX_DOWNSTREAM_MOVE {
-                            break;
-                        }
-                        let a = StationState {
-                            state: self.layer_state(unknowns, ue, k - 1),
-                            amplification: unknowns.third[k - 1],
-                        };
-                        point = transition_point(
-                            &self.ctx,
-                            &a,
-                            ue[k],
-                            layout.s[k - 1],
-                            layout.s[k],
-                            trip,
-                        );
-                        if !point.beyond {
-                            break;
-                        }
-                    }
+            } else if allow_downstream && t > range.start && t < range.end {
+                if points[t].is_some_and(|p| p.beyond) {
+                    self.move_downstream(layout, unknowns, ue, range.clone(), t, trip);
                     moved = true;
                 }
             }
         }
         moved
+    }
+
+    /// Transition interval (t − 1, t) holds no transition: the laminar layer is continued
+    /// downstream by implicit laminar steps at the current edge speeds (the march's own
+    /// equations with ue prescribed) until an interval reaches the critical N (or the trip), and
+    /// transition is placed there. A step that has no solution (laminar separation with ue
+    /// prescribed) stops the continuation.
+    fn move_downstream(
+        &self,
+        layout: &Layout,
+        unknowns: &mut Unknowns,
+        ue: &[f64],
+        range: std::ops::Range<usize>,
+        t: usize,
+        trip: Option<f64>,
+    ) {
+        let settings = crate::boundary_layer::MarchSettings::new(self.ctx.reynolds);
+        let mut a = StationState {
+            state: self.layer_state(unknowns, ue, t - 1),
+            amplification: unknowns.third[t - 1],
+        };
+        let mut k = t;
+        while k < range.end && k - t < MAX_DOWNSTREAM_MOVE {
+            let ds = layout.s[k] - layout.s[k - 1];
+            let edge = EdgeCondition {
+                external_velocity: ue[k].max(1e-6),
+                interaction_coefficient: 0.0,
+            };
+            let (lam, ok) = laminar_step(
+                &a.state,
+                ds,
+                edge,
+                &settings,
+                self.ctx.closure,
+                false,
+                &mut StepMemory::default(),
+            );
+            if !ok || !(lam.theta.is_finite() && lam.shape_factor.is_finite()) {
+                break;
+            }
+            let n = a.amplification + 0.5 * ds * (self.ctx.growth(&a.state) + self.ctx.growth(&lam));
+            unknowns.regime[k] = Regime::Laminar;
+            unknowns.third[k] = n;
+            unknowns.ln_theta[k] = lam.theta.ln();
+            unknowns.m[k] = lam.theta * lam.shape_factor * ue[k].max(1e-6);
+            a = StationState {
+                state: lam,
+                amplification: n,
+            };
+            k += 1;
+            if k >= range.end {
+                break;
+            }
+            let point = transition_point(&self.ctx, &a, ue[k], layout.s[k - 1], layout.s[k], trip);
+            if !point.beyond {
+                break;
+            }
+        }
+        if k == t {
+            // Not even one step: fall back to the explicit estimate of the interval's end.
+            let point = transition_point(&self.ctx, &a, ue[t], layout.s[t - 1], layout.s[t], trip);
+            let lam = point.laminar;
+            unknowns.regime[t] = Regime::Laminar;
+            unknowns.third[t] = point.amplification_at_end;
+            unknowns.ln_theta[t] = lam.theta.ln();
+            unknowns.m[t] = lam.theta * lam.shape_factor * ue[t].max(1e-6);
+        }
     }
 
     /// Applies the Newton corrections, relaxed so that ln θ changes by at most
@@ -568,9 +684,14 @@ impl CoupledProblem<'_> {
         let due = layout.influence.matvec(&step.mass);
         let mut omega: f64 = scale;
         let trace = std::env::var_os("WAKERANK_TRACE").is_some();
-        let mut limit = |change: f64, allowed: f64| {
+        let mut binding = (usize::MAX, 0usize);
+        let mut current = 0usize;
+        let mut which = 0usize;
+        let mut limit = |change: f64, allowed: f64, k: usize, w: usize| {
             if change.abs() * omega > allowed {
                 omega = allowed / change.abs();
+                current = k;
+                which = w;
             }
         };
         for k in 0..layout.len() {
@@ -578,24 +699,40 @@ impl CoupledProblem<'_> {
             let dm = step.mass[k];
             let m = unknowns.m[k].max(1e-12);
             let u = ue[k].max(1e-6);
-            limit(dl, MAX_LOG_THETA_STEP);
-            limit(dm / m, MAX_RELATIVE_STEP);
-            limit(dm / m - due[k] / u - dl, MAX_RELATIVE_STEP);
+            limit(dl, MAX_LOG_THETA_STEP, k, 0);
+            // Near a stagnation point m and ue are small and move with the point itself;
+            // relative limits there would stall every step, so they clip those stations'
+            // own corrections instead (below).
+            if ue[k] > NEAR_STAGNATION_SPEED {
+                limit(dm / m, MAX_RELATIVE_STEP, k, 1);
+                limit(dm / m - due[k] / u - dl, MAX_RELATIVE_STEP, k, 2);
+            }
             if ue[k] + due[k] <= 0.0 {
-                limit(due[k] / u, 0.5);
+                limit(due[k] / u, 0.5, k, 3);
             }
             if unknowns.regime[k] != Regime::Laminar {
-                limit(dc, MAX_RELATIVE_STEP * unknowns.third[k].abs().max(0.01));
+                limit(dc, (MAX_RELATIVE_STEP * unknowns.third[k].abs()).max(MAX_ENTRAINMENT_STEP), k, 4);
             }
         }
+        binding = (current, which);
         if trace {
-            eprintln!("  omega {omega:.3}");
+            eprintln!("  omega {omega:.3} limited by {binding:?}");
         }
         for k in 0..layout.len() {
             let [dl, dc] = step.local[k];
-            unknowns.ln_theta[k] += omega * dl;
-            unknowns.third[k] += omega * dc;
-            unknowns.m[k] = (unknowns.m[k] + omega * step.mass[k]).max(1e-12);
+            let mut own = omega;
+            if ue[k] <= NEAR_STAGNATION_SPEED {
+                let m = unknowns.m[k].max(1e-12);
+                let u = ue[k].max(1e-6);
+                for change in [step.mass[k] / m, step.mass[k] / m - due[k] / u - dl] {
+                    if change.abs() * own > MAX_RELATIVE_STEP {
+                        own = MAX_RELATIVE_STEP / change.abs();
+                    }
+                }
+            }
+            unknowns.ln_theta[k] += own * dl;
+            unknowns.third[k] += own * dc;
+            unknowns.m[k] = (unknowns.m[k] + own * step.mass[k]).max(1e-12);
             if unknowns.regime[k] != Regime::Laminar {
                 unknowns.third[k] = unknowns.third[k].clamp(ENTRAINMENT_RANGE.0, ENTRAINMENT_RANGE.1);
             }

@@ -12,6 +12,8 @@ use super::Unknowns;
 
 /// Fixed-point passes that set the mass defects of a mapped state from its θ and H.
 const MAPPING_PASSES: usize = 4;
+/// Stations after a side's start that the later passes adjust.
+const NEAR_START_STATIONS: usize = 4;
 
 /// The states along one side (or the wake), ordered downstream.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -145,12 +147,27 @@ impl NewtonState {
         // Shape factor and θ kept at each station's edge speed (a few fixed-point passes, as
         // the edge speeds move with the mass defects); a side's first station starts from the
         // similarity solution.
-        for _ in 0..MAPPING_PASSES {
+        for pass in 0..MAPPING_PASSES {
             let ue = layout.edge_speeds(&unknowns.m);
             for k in 0..k_total {
+                // Later passes only near the stagnation points, where ue is small and moves
+                // most; elsewhere (at the trailing edge the self-influence times δ* nears one)
+                // repeated passes would not settle.
+                let near_start = [layout.upper.start, layout.lower.start]
+                    .iter()
+                    .any(|&first| k >= first && k < first + NEAR_START_STATIONS);
+                if pass > 0 && !near_start {
+                    continue;
+                }
                 let u = ue[k].max(1e-3);
                 if layout.role[k] == Role::Start && unknowns.regime[k] == Regime::Laminar {
-                    let theta = stagnation_theta(layout.s[k], u, reynolds);
+                    // The velocity gradient of both first stations, as the start residual has it.
+                    let (a, b) = (layout.upper.start, layout.lower.start);
+                    let theta = stagnation_theta(
+                        layout.s[a] + layout.s[b],
+                        ue[a].max(1e-9) + ue[b].max(1e-9),
+                        reynolds,
+                    );
                     unknowns.ln_theta[k] = theta.ln();
                     unknowns.third[k] = 0.0;
                     shape[k] = STAGNATION_SHAPE_FACTOR;
