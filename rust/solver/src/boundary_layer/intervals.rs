@@ -290,27 +290,6 @@ pub(crate) fn transition_point(
     }
 }
 
-/// Residuals of a transition interval a (laminar) → b (turbulent): laminar up to the
-/// transition point (see [`transition_point`]), then the turbulent equations from the
-/// turbulent start of that state ([`turbulent_start`]) to b. Continuous as the point moves to
-/// either end of the interval.
-pub(crate) fn transition_interval_residual(
-    ctx: &EquationContext,
-    a: &StationState,
-    b: &StationState,
-    sa: f64,
-    sb: f64,
-    trip_s: Option<f64>,
-    weight: f64,
-) -> ([f64; 3], TransitionPoint) {
-    let point = transition_point(ctx, a, b.state.edge_velocity, sa, sb, trip_s);
-    let start = turbulent_start(&point.laminar, ctx.reynolds);
-    let rest = (1.0 - point.fraction) * (sb - sa);
-    let weight = weight.max(upwinded_weight(start.shape_factor, b.state.shape_factor));
-    let r = turbulent_interval_residual(ctx, &start, &b.state, rest, weight, false);
-    (r, point)
-}
-
 /// The wake's first state, merged from the two trailing-edge states: θ = θu + θl,
 /// δ* = δ*u + δ*l, the mass defect continuous (ue = (ue_u δ*u + ue_l δ*l)/(δ*u + δ*l)), CE the
 /// θ-weighted mean of the two sides' (zero from a laminar side).
@@ -350,4 +329,94 @@ pub(crate) fn upwinded_weight(h_a: f64, h_b: f64) -> f64 {
         return 1.0;
     }
     1.0 - 0.5 * (-UPWIND_SENSITIVITY * r * r).exp()
+}
+
+/// Largest change of the laminar shape factor from station a to the transition point, as a
+/// fraction of H_a (keeps the extrapolation sane where H changes fast).
+const MAX_TRANSITION_SHAPE_CHANGE: f64 = 0.5;
+
+/// Laminar shape factor at the transition point, fraction f of the interval [sa, sb]: H_a
+/// extrapolated linearly with the slope between the two laminar stations before it
+/// (`previous` = (H, s) of the station before a, when laminar). Extrapolated rather than solved
+/// from the kinetic-energy equation because with the edge speed tied to the two stations that
+/// equation is singular where dH*/dH vanishes, near laminar separation — where transition in a
+/// separation bubble happens.
+pub(crate) fn transition_shape_factor(
+    previous: Option<(f64, f64)>,
+    h_a: f64,
+    sa: f64,
+    sb: f64,
+    f: f64,
+) -> f64 {
+    let slope = previous.map_or(0.0, |(h, s)| (h_a - h) / (sa - s).max(1e-12));
+    let change = (f * (sb - sa) * slope).clamp(
+        -MAX_TRANSITION_SHAPE_CHANGE * h_a,
+        MAX_TRANSITION_SHAPE_CHANGE * h_a,
+    );
+    (h_a + change).clamp(LAMINAR_SHAPE_FACTOR_RANGE.0, LAMINAR_SHAPE_FACTOR_RANGE.1)
+}
+
+/// Residuals of the first turbulent station b of a side, whose interval from the laminar
+/// station a holds the transition point. The momentum thickness of the laminar layer at that
+/// point, ln θ_t, and the point's fraction f of the interval are unknowns of b as well
+/// (`transition`), so b has five equations: laminar momentum from a to the point (edge speed
+/// interpolated linearly, H from [`transition_shape_factor`]), the transition criterion
+/// N_a + f Δs (g_a + g_t)/2 = N_crit (or f at the trip when the trip lies in the interval),
+/// and the lag-entrainment equations from the turbulent start of the point's state
+/// ([`turbulent_start`]) to b. f is not bounded: a solution outside [0, 1] says that
+/// transition belongs in a neighbouring interval, and the regimes are moved there. The
+/// residual is smooth in every unknown and continuous as f passes 0 or 1.
+#[allow(clippy::too_many_arguments)]
+pub(crate) fn transition_station_residual(
+    ctx: &EquationContext,
+    previous: Option<(f64, f64)>,
+    a: &StationState,
+    b: &StationState,
+    transition: [f64; 2],
+    sa: f64,
+    sb: f64,
+    trip_s: Option<f64>,
+) -> [f64; 5] {
+    let ds = sb - sa;
+    let [ln_theta, f] = transition;
+    let ue_t = (a.state.edge_velocity + f * (b.state.edge_velocity - a.state.edge_velocity))
+        .max(1e-6);
+    let point = LayerState {
+        theta: ln_theta.exp(),
+        shape_factor: transition_shape_factor(previous, a.state.shape_factor, sa, sb, f),
+        entrainment: 0.0,
+        edge_velocity: ue_t,
+    };
+    let at_a = LaminarTerms::new(&a.state, ctx.reynolds, ctx.closure);
+    let laminar_weight = upwinded_weight(a.state.shape_factor, point.shape_factor).max(0.5);
+    let [r1, _] = laminar_residuals(
+        &a.state,
+        &at_a,
+        &point,
+        f * ds,
+        laminar_weight,
+        ctx.reynolds,
+        ctx.closure,
+    );
+    let trip_fraction = trip_s
+        .filter(|&t| t > sa && t <= sb)
+        .map(|t| (t - sa) / ds);
+    let r2 = match trip_fraction {
+        Some(ft) => f - ft,
+        None => {
+            a.amplification + 0.5 * f * ds * (ctx.growth(&a.state) + ctx.growth(&point))
+                - ctx.n_critical
+        }
+    };
+    let start = turbulent_start(&point, ctx.reynolds);
+    let turbulent_weight = upwinded_weight(start.shape_factor, b.state.shape_factor).max(0.5);
+    let [r3, r4, r5] = turbulent_interval_residual(
+        ctx,
+        &start,
+        &b.state,
+        (1.0 - f) * ds,
+        turbulent_weight,
+        false,
+    );
+    [r1, r2, r3, r4, r5]
 }

@@ -15,39 +15,129 @@
 
 use crate::linalg::{DenseMatrix, LuFactors};
 
-/// The linearisation of one station's three residuals.
+/// Most local unknowns of a station: ln θ and its third variable, plus, at the first turbulent
+/// station of a side, the laminar momentum thickness at the transition point and the point's
+/// fraction of the interval.
+pub(crate) const MAX_LOCAL: usize = 4;
+/// Most equations of a station (one more than its local unknowns: the extra one is the
+/// equation that fixes its mass defect).
+pub(crate) const MAX_EQUATIONS: usize = MAX_LOCAL + 1;
+/// Local unknowns of a station through which the stations downstream depend on it.
+pub(crate) const SHARED_LOCAL: usize = 2;
+
+/// The linearisation of one station's residuals.
 #[derive(Debug, Clone, Default)]
 pub(crate) struct StationLinearisation {
     /// Station indices the residuals depend on: itself first, then its predecessors.
     pub involved: [usize; 3],
     /// How many entries of `involved` are used (1 to 3).
     pub count: usize,
-    /// Residuals at the current iterate.
-    pub residual: [f64; 3],
-    /// ∂R/∂z of each involved station, row-major 3 × 2.
-    pub d_local: [[[f64; 2]; 3]; 3],
+    /// Local unknowns of the station itself (2, or 4 at a transition station).
+    pub n_local: usize,
+    /// Residuals at the current iterate (the first n_local + 1 are used).
+    pub residual: [f64; MAX_EQUATIONS],
+    /// ∂R/∂z of each involved station: its own n_local columns, a predecessor's first
+    /// SHARED_LOCAL.
+    pub d_local: [[[f64; MAX_LOCAL]; MAX_EQUATIONS]; 3],
     /// ∂R/∂m of each involved station at fixed edge speed.
-    pub d_mass: [[f64; 3]; 3],
+    pub d_mass: [[f64; MAX_EQUATIONS]; 3],
     /// ∂R/∂ue of each involved station.
-    pub d_speed: [[f64; 3]; 3],
+    pub d_speed: [[f64; MAX_EQUATIONS]; 3],
 }
 
-/// Newton corrections: δz per station and δm per station.
+impl StationLinearisation {
+    /// Number of equations.
+    pub(crate) fn n_equations(&self) -> usize {
+        self.n_local + 1
+    }
+}
+
+/// Newton corrections: δz per station (n_local entries used) and δm per station.
 pub(crate) struct Corrections {
-    pub local: Vec<[f64; 2]>,
+    pub local: Vec<[f64; MAX_LOCAL]>,
     pub mass: Vec<f64>,
 }
 
-fn cross(a: [f64; 3], b: [f64; 3]) -> [f64; 3] {
-    [
-        a[1] * b[2] - a[2] * b[1],
-        a[2] * b[0] - a[0] * b[2],
-        a[0] * b[1] - a[1] * b[0],
-    ]
-}
-
-fn norm(a: [f64; 3]) -> f64 {
-    (a[0] * a[0] + a[1] * a[1] + a[2] * a[2]).sqrt()
+/// Orthonormal complement and least-squares left inverse of an (n + 1) × n matrix of full
+/// column rank, by Householder QR (Golub & Van Loan, *Matrix Computations*, §5.2): returns the
+/// unit vector q orthogonal to every column, and L with L·E = I. None when rank deficient.
+fn complement_and_left_inverse(
+    e: &[[f64; MAX_LOCAL]; MAX_EQUATIONS],
+    n: usize,
+) -> Option<([f64; MAX_EQUATIONS], [[f64; MAX_EQUATIONS]; MAX_LOCAL])> {
+    let rows = n + 1;
+    // Column scaling (the unknowns differ in size by orders of magnitude).
+    let mut scale = [1.0; MAX_LOCAL];
+    let mut a = [[0.0; MAX_LOCAL]; MAX_EQUATIONS];
+    for c in 0..n {
+        let norm = (0..rows).map(|r| e[r][c] * e[r][c]).sum::<f64>().sqrt();
+        if !(norm > 0.0 && norm.is_finite()) {
+            return None;
+        }
+        scale[c] = norm;
+        for r in 0..rows {
+            a[r][c] = e[r][c] / norm;
+        }
+    }
+    // Q accumulated explicitly (rows × rows).
+    let mut q = [[0.0; MAX_EQUATIONS]; MAX_EQUATIONS];
+    for (r, row) in q.iter_mut().enumerate().take(rows) {
+        row[r] = 1.0;
+    }
+    for c in 0..n {
+        let norm = (c..rows).map(|r| a[r][c] * a[r][c]).sum::<f64>().sqrt();
+        if norm < 1e-12 {
+            return None;
+        }
+        let alpha = if a[c][c] > 0.0 { -norm } else { norm };
+        let mut v = [0.0; MAX_EQUATIONS];
+        for r in c..rows {
+            v[r] = a[r][c];
+        }
+        v[c] -= alpha;
+        let vv = (c..rows).map(|r| v[r] * v[r]).sum::<f64>();
+        if vv <= 1e-300 {
+            continue;
+        }
+        // A ← (I − 2vvᵀ/vᵀv) A, Q ← Q (I − 2vvᵀ/vᵀv).
+        for cc in 0..n {
+            let dot = (c..rows).map(|r| v[r] * a[r][cc]).sum::<f64>() * 2.0 / vv;
+            for r in c..rows {
+                a[r][cc] -= dot * v[r];
+            }
+        }
+        for row in q.iter_mut().take(rows) {
+            let dot = (c..rows).map(|r| row[r] * v[r]).sum::<f64>() * 2.0 / vv;
+            for r in c..rows {
+                row[r] -= dot * v[r];
+            }
+        }
+    }
+    // a now holds R in its first n rows; Q's last column spans the complement.
+    let mut complement = [0.0; MAX_EQUATIONS];
+    for r in 0..rows {
+        complement[r] = q[r][n];
+    }
+    // L̂ = R⁻¹ Q₁ᵀ, then L = D⁻¹ L̂ for the column scaling D.
+    let mut left = [[0.0; MAX_EQUATIONS]; MAX_LOCAL];
+    for r in 0..rows {
+        // Solve R x = (Q₁ᵀ)[:, r] = row r of Q, first n entries.
+        let mut x = [0.0; MAX_LOCAL];
+        for i in (0..n).rev() {
+            let mut sum = q[r][i];
+            for j in i + 1..n {
+                sum -= a[i][j] * x[j];
+            }
+            if a[i][i].abs() < 1e-14 {
+                return None;
+            }
+            x[i] = sum / a[i][i];
+        }
+        for i in 0..n {
+            left[i][r] = x[i] / scale[i];
+        }
+    }
+    Some((complement, left))
 }
 
 /// Solves the linearised coupled system; `influence[k][l]` = ∂ue_k/∂m_l. None when a station's
@@ -57,17 +147,22 @@ pub(crate) fn solve_step(
     influence: &DenseMatrix,
 ) -> Option<Corrections> {
     let k_total = stations.len();
-    let mut gain = vec![0.0; k_total * 2 * k_total];
-    let mut offset = vec![[0.0; 2]; k_total];
+    let mut gain = vec![0.0; k_total * MAX_LOCAL * k_total];
+    let mut offset = vec![[0.0; MAX_LOCAL]; k_total];
     let mut reduced = DenseMatrix::zeros(k_total, k_total);
     let mut reduced_rhs = vec![0.0; k_total];
-    let mut coupling = vec![0.0; 3 * k_total];
+    let mut coupling = vec![0.0; MAX_EQUATIONS * k_total];
+    let gain_row = |k: usize, c: usize| (k * MAX_LOCAL + c) * k_total;
     for (k, lin) in stations.iter().enumerate() {
-        coupling.iter_mut().for_each(|v| *v = 0.0);
-        let mut rhs = lin.residual.map(|v| -v);
+        let rows = lin.n_equations();
+        coupling[..rows * k_total].iter_mut().for_each(|v| *v = 0.0);
+        let mut rhs = [0.0; MAX_EQUATIONS];
+        for r in 0..rows {
+            rhs[r] = -lin.residual[r];
+        }
         for p in 0..lin.count {
             let j = lin.involved[p];
-            for r in 0..3 {
+            for r in 0..rows {
                 let row = &mut coupling[r * k_total..(r + 1) * k_total];
                 row[j] += lin.d_mass[p][r];
                 let ds = lin.d_speed[p][r];
@@ -77,12 +172,13 @@ pub(crate) fn solve_step(
                     }
                 }
                 if p >= 1 {
-                    for c in 0..2 {
+                    for c in 0..SHARED_LOCAL {
                         let e = lin.d_local[p][r][c];
                         if e == 0.0 {
                             continue;
                         }
-                        let g = &gain[(j * 2 + c) * k_total..(j * 2 + c + 1) * k_total];
+                        let start = gain_row(j, c);
+                        let g = &gain[start..start + k_total];
                         for (v, gv) in row.iter_mut().zip(g) {
                             *v += e * gv;
                         }
@@ -91,51 +187,24 @@ pub(crate) fn solve_step(
                 }
             }
         }
-        let e = &lin.d_local[0];
-        let column = |c: usize| [e[0][c], e[1][c], e[2][c]];
-        let (c1, c2) = (column(0), column(1));
-        let (n1, n2) = (norm(c1), norm(c2));
-        if !(n1 > 0.0 && n2 > 0.0 && n1.is_finite() && n2.is_finite()) {
-            return None;
-        }
-        let mut q = cross(c1.map(|v| v / n1), c2.map(|v| v / n2));
-        let nq = norm(q);
-        if nq < 1e-10 {
-            return None;
-        }
-        q = q.map(|v| v / nq);
+        let (q, left) = complement_and_left_inverse(&lin.d_local[0], lin.n_local)?;
         // Reduced equation: q·(rhs − M δm) = 0.
         {
             let row = reduced.row_mut(k);
-            for r in 0..3 {
+            for r in 0..rows {
                 let m_row = &coupling[r * k_total..(r + 1) * k_total];
                 for (v, mv) in row.iter_mut().zip(m_row) {
                     *v += q[r] * mv;
                 }
             }
         }
-        reduced_rhs[k] = q[0] * rhs[0] + q[1] * rhs[1] + q[2] * rhs[2];
-        // Least-squares left inverse L = (EᵀE)⁻¹Eᵀ; δz = L (rhs − M δm).
-        let (a11, a12, a22) = (
-            c1[0] * c1[0] + c1[1] * c1[1] + c1[2] * c1[2],
-            c1[0] * c2[0] + c1[1] * c2[1] + c1[2] * c2[2],
-            c2[0] * c2[0] + c2[1] * c2[1] + c2[2] * c2[2],
-        );
-        let det = a11 * a22 - a12 * a12;
-        if det.abs() <= 1e-300 {
-            return None;
-        }
-        let inv = [[a22 / det, -a12 / det], [-a12 / det, a11 / det]];
-        let mut left = [[0.0; 3]; 2];
-        for c in 0..2 {
-            for r in 0..3 {
-                left[c][r] = inv[c][0] * c1[r] + inv[c][1] * c2[r];
-            }
-        }
-        for c in 0..2 {
-            offset[k][c] = left[c][0] * rhs[0] + left[c][1] * rhs[1] + left[c][2] * rhs[2];
-            let g = &mut gain[(k * 2 + c) * k_total..(k * 2 + c + 1) * k_total];
-            for r in 0..3 {
+        reduced_rhs[k] = (0..rows).map(|r| q[r] * rhs[r]).sum();
+        // δz = L (rhs − M δm).
+        for c in 0..lin.n_local {
+            offset[k][c] = (0..rows).map(|r| left[c][r] * rhs[r]).sum();
+            let start = gain_row(k, c);
+            let g = &mut gain[start..start + k_total];
+            for r in 0..rows {
                 let l = left[c][r];
                 if l == 0.0 {
                     continue;
@@ -152,18 +221,17 @@ pub(crate) fn solve_step(
     if !mass.iter().all(|v| v.is_finite()) {
         return None;
     }
-    let local: Vec<[f64; 2]> = (0..k_total)
-        .map(|k| {
-            let mut z = offset[k];
-            for (c, zc) in z.iter_mut().enumerate() {
-                let g = &gain[(k * 2 + c) * k_total..(k * 2 + c + 1) * k_total];
-                *zc += g.iter().zip(&mass).map(|(a, b)| a * b).sum::<f64>();
+    let mut local = vec![[0.0; MAX_LOCAL]; k_total];
+    for (k, lin) in stations.iter().enumerate() {
+        for c in 0..lin.n_local {
+            let start = gain_row(k, c);
+            let g = &gain[start..start + k_total];
+            let z = offset[k][c] + g.iter().zip(&mass).map(|(a, b)| a * b).sum::<f64>();
+            if !z.is_finite() {
+                return None;
             }
-            z
-        })
-        .collect();
-    if !local.iter().all(|z| z[0].is_finite() && z[1].is_finite()) {
-        return None;
+            local[k][c] = z;
+        }
     }
     Some(Corrections { local, mass })
 }
@@ -189,47 +257,57 @@ mod tests {
             let mut lin = StationLinearisation {
                 involved: [k, k.saturating_sub(1), 0],
                 count: if k == 0 { 1 } else { 2 },
-                residual: [pseudo(k, 1), pseudo(k, 2), pseudo(k, 3)],
+                n_local: if k == 2 { 4 } else { 2 },
+                residual: [pseudo(k, 1), pseudo(k, 2), pseudo(k, 3), pseudo(k, 4), pseudo(k, 6)],
                 ..Default::default()
             };
             for p in 0..lin.count {
-                for r in 0..3 {
-                    for c in 0..2 {
+                let cols = if p == 0 { lin.n_local } else { SHARED_LOCAL };
+                for r in 0..lin.n_equations() {
+                    for c in 0..cols {
                         lin.d_local[p][r][c] =
                             pseudo(k + p, r * 2 + c) + if p == 0 && r == c { 2.0 } else { 0.0 };
                     }
-                    lin.d_mass[p][r] = pseudo(k + 3 * p, r + 5) + if p == 0 && r == 2 { 1.5 } else { 0.0 };
+                    lin.d_mass[p][r] = pseudo(k + 3 * p, r + 5)
+                        + if p == 0 && r == lin.n_local { 1.5 } else { 0.0 };
                     lin.d_speed[p][r] = pseudo(k + 5 * p, r + 9);
                 }
             }
             stations.push(lin);
         }
         let solved = solve_step(&stations, &influence).expect("solvable");
-        // Full system: unknowns (z0, z1, m) per station.
-        let n = 3 * k_total;
+        // Full system: unknowns (z..., m) per station, in station order.
+        let mut first = vec![0; k_total + 1];
+        for k in 0..k_total {
+            first[k + 1] = first[k] + stations[k].n_local + 1;
+        }
+        let n = first[k_total];
+        let mass_index = |k: usize| first[k] + stations[k].n_local;
         let mut full = DenseMatrix::zeros(n, n);
         let mut rhs = vec![0.0; n];
         for (k, lin) in stations.iter().enumerate() {
-            for r in 0..3 {
-                let row = 3 * k + r;
+            for r in 0..lin.n_equations() {
+                let row = first[k] + r;
                 rhs[row] = -lin.residual[r];
                 for p in 0..lin.count {
                     let j = lin.involved[p];
-                    for c in 0..2 {
-                        full.add(row, 3 * j + c, lin.d_local[p][r][c]);
+                    let cols = if p == 0 { lin.n_local } else { SHARED_LOCAL };
+                    for c in 0..cols {
+                        full.add(row, first[j] + c, lin.d_local[p][r][c]);
                     }
-                    full.add(row, 3 * j + 2, lin.d_mass[p][r]);
+                    full.add(row, mass_index(j), lin.d_mass[p][r]);
                     for l in 0..k_total {
-                        full.add(row, 3 * l + 2, lin.d_speed[p][r] * influence.get(j, l));
+                        full.add(row, mass_index(l), lin.d_speed[p][r] * influence.get(j, l));
                     }
                 }
             }
         }
         let x = LuFactors::new(full).unwrap().solve(&rhs);
         for k in 0..k_total {
-            assert!((x[3 * k] - solved.local[k][0]).abs() < 1e-10);
-            assert!((x[3 * k + 1] - solved.local[k][1]).abs() < 1e-10);
-            assert!((x[3 * k + 2] - solved.mass[k]).abs() < 1e-10);
+            for c in 0..stations[k].n_local {
+                assert!((x[first[k] + c] - solved.local[k][c]).abs() < 1e-9);
+            }
+            assert!((x[mass_index(k)] - solved.mass[k]).abs() < 1e-9);
         }
     }
 }

@@ -1,7 +1,7 @@
 //! Turning the Newton iterate into the coupled solution the polar row and station table are
 //! built from, and into the node state that warm-starts a neighbouring angle.
 
-use crate::boundary_layer::intervals::{merged_wake_start, TransitionPoint};
+use crate::boundary_layer::intervals::merged_wake_start;
 use crate::boundary_layer::march::{make_station, SeparationTracker};
 use crate::boundary_layer::{MarchSettings, Regime, SideSolution, Station};
 
@@ -38,7 +38,6 @@ fn side_solution(
     unknowns: &Unknowns,
     ue: &[f64],
     range: std::ops::Range<usize>,
-    points: &[Option<TransitionPoint>],
     trip: Option<f64>,
     converged: bool,
 ) -> SideSolution {
@@ -55,13 +54,14 @@ fn side_solution(
             if k == range.start {
                 transition_s = Some(layout.s[k]);
                 transition_forced = true;
-            } else if let Some(p) = points[k] {
+            } else if let Some([_, f]) = unknowns.transition[k] {
                 let (sa, sb) = (layout.s[k - 1], layout.s[k]);
-                transition_s = Some(sa + p.fraction * (sb - sa));
-                transition_forced = p.forced;
-                frozen = if p.forced {
+                let f = f.clamp(0.0, 1.0);
+                let s_tr = sa + f * (sb - sa);
+                transition_s = Some(s_tr);
+                transition_forced = trip.is_some_and(|ts| ts > sa && ts <= sb);
+                frozen = if transition_forced {
                     unknowns.third[k - 1]
-                        + p.fraction * (p.amplification_at_end - unknowns.third[k - 1])
                 } else {
                     problem.ctx.n_critical
                 };
@@ -106,18 +106,14 @@ pub(super) fn coupled_solution(
     problem: &CoupledProblem,
     layout: &Layout,
     unknowns: &Unknowns,
-    points: &[Option<TransitionPoint>],
     converged: bool,
     iterations: usize,
     residual: f64,
 ) -> CoupledSolution {
     let case = problem.case;
     let ue = layout.edge_speeds(&unknowns.m);
-    let side = |range, trip| {
-        side_solution(
-            problem, layout, unknowns, &ue, range, points, trip, converged,
-        )
-    };
+    let side =
+        |range, trip| side_solution(problem, layout, unknowns, &ue, range, trip, converged);
     let upper = side(layout.upper.clone(), layout.trips[0]);
     let lower = side(layout.lower.clone(), layout.trips[1]);
     let settings = MarchSettings::new(problem.ctx.reynolds);

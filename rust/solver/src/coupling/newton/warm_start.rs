@@ -122,6 +122,7 @@ impl NewtonState {
             third: vec![0.0; k_total],
             m: vec![0.0; k_total],
             regime: vec![Regime::Laminar; k_total],
+            transition: vec![None; k_total],
         };
         let mut shape = vec![2.0; k_total];
         for k in 0..k_total {

@@ -1,0 +1,242 @@
+//! Every station's residuals as a function of the unknowns, and their linearisation by
+//! forward differences for the Newton step.
+
+use crate::boundary_layer::intervals::{
+    laminar_interval_residual, merged_wake_start, start_residual, transition_station_residual,
+    turbulent_interval_residual, upwinded_weight,
+};
+use crate::boundary_layer::Regime;
+
+use super::elimination::{StationLinearisation, MAX_EQUATIONS, SHARED_LOCAL};
+use super::layout::{Layout, Role};
+use super::{norm_squared, station_state, CoupledProblem, NodeVars, Unknowns};
+
+/// Relative size of the forward-difference steps (about the square root of the rounding
+/// error of the residuals, common practice).
+const DIFFERENCE_STEP: f64 = 1e-7;
+
+impl CoupledProblem<'_> {
+    /// Stations a station's residuals depend on: itself first.
+    pub(super) fn involved(
+        &self,
+        layout: &Layout,
+        unknowns: &Unknowns,
+        k: usize,
+    ) -> ([usize; 3], usize) {
+        match layout.role[k] {
+            // The velocity gradient at the stagnation point comes from both sides' first
+            // stations (see `residual`).
+            Role::Start => {
+                let other = if layout.upper.start == k {
+                    layout.lower.start
+                } else {
+                    layout.upper.start
+                };
+                ([k, other, k], 2)
+            }
+            // A transition station also uses the laminar station two back (the shape factor
+            // at the transition point is extrapolated from it).
+            Role::Interval
+                if unknowns.transition[k].is_some() && layout.role[k - 1] == Role::Interval =>
+            {
+                ([k, k - 1, k - 2], 3)
+            }
+            Role::Interval => ([k, k - 1, k], 2),
+            Role::WakeFirst => {
+                let [u, l] = layout.trailing_edges();
+                ([k, u, l], 3)
+            }
+        }
+    }
+
+    /// Base weight of the integration rule of the interval into station k: backward Euler on
+    /// the first interval of a side and of the wake (the start states are only approximate),
+    /// the trapezoidal rule elsewhere (raised towards backward Euler where H changes fast).
+    fn weight(&self, layout: &Layout, k: usize) -> f64 {
+        let first = match layout.role[k] {
+            Role::WakeFirst => true,
+            Role::Interval => layout.role[k - 1] == Role::Start,
+            Role::Start => false,
+        };
+        if first {
+            1.0
+        } else {
+            0.5
+        }
+    }
+
+    /// Number of local unknowns of station k (besides its mass defect).
+    pub(super) fn local_count(&self, unknowns: &Unknowns, k: usize) -> usize {
+        if unknowns.transition[k].is_some() {
+            4
+        } else {
+            2
+        }
+    }
+
+    /// Residuals of station k for the given variables of its involved stations (the first
+    /// `n` entries are used, n = local unknowns + 1).
+    fn residual(
+        &self,
+        layout: &Layout,
+        unknowns: &Unknowns,
+        k: usize,
+        vars: &[NodeVars; 3],
+    ) -> [f64; MAX_EQUATIONS] {
+        let ctx = &self.ctx;
+        let (involved, _) = self.involved(layout, unknowns, k);
+        let regime = |p: usize| unknowns.regime[involved[p]];
+        let b = station_state(&vars[0], regime(0));
+        let w = self.weight(layout, k);
+        let mut out = [0.0; MAX_EQUATIONS];
+        let mut put = |r: &[f64]| out[..r.len()].copy_from_slice(r);
+        match layout.role[k] {
+            Role::Start => {
+                // Hiemenz flow: ue = K·s on both sides of the stagnation point, so
+                // K = (ue_upper + ue_lower)/(s_upper + s_lower) over the two first stations,
+                // whose arc-length sum does not depend on where the point lies between them.
+                let other = involved[1];
+                let gradient_s = layout.s[k] + layout.s[other];
+                let gradient_ue = vars[0].ue.max(1e-9) + vars[1].ue.max(1e-9);
+                put(&start_residual(
+                    ctx,
+                    &b,
+                    gradient_s,
+                    gradient_ue,
+                    regime(0) != Regime::Laminar,
+                ));
+            }
+            Role::WakeFirst => {
+                let upper = station_state(&vars[1], regime(1)).state;
+                let lower = station_state(&vars[2], regime(2)).state;
+                let merged = merged_wake_start(&upper, &lower);
+                let ds = layout.s[k] - self.wake_origin;
+                let w = w.max(upwinded_weight(merged.shape_factor, b.state.shape_factor));
+                put(&turbulent_interval_residual(ctx, &merged, &b.state, ds, w, true));
+            }
+            Role::Interval => {
+                let a = station_state(&vars[1], regime(1));
+                let (sa, sb) = (layout.s[k - 1], layout.s[k]);
+                let upwinded = w.max(upwinded_weight(a.state.shape_factor, b.state.shape_factor));
+                match (regime(1), regime(0)) {
+                    (Regime::Laminar, Regime::Laminar) => {
+                        put(&laminar_interval_residual(ctx, &a, &b, sb - sa, upwinded));
+                    }
+                    (Regime::Laminar, _) => {
+                        let trip = layout.trips[layout.side_of(k).min(1)];
+                        let previous = (involved[2] + 2 == k && regime(2) == Regime::Laminar)
+                            .then(|| {
+                                let st = station_state(&vars[2], regime(2)).state;
+                                (st.shape_factor, layout.s[k - 2])
+                            });
+                        put(&transition_station_residual(
+                            ctx,
+                            previous,
+                            &a,
+                            &b,
+                            vars[0].transition,
+                            sa,
+                            sb,
+                            trip,
+                        ));
+                    }
+                    (_, r) => put(&turbulent_interval_residual(
+                        ctx,
+                        &a.state,
+                        &b.state,
+                        sb - sa,
+                        upwinded,
+                        r == Regime::Wake,
+                    )),
+                }
+            }
+        }
+        out
+    }
+
+    fn vars_of(&self, unknowns: &Unknowns, ue: &[f64], j: usize) -> NodeVars {
+        NodeVars {
+            ln_theta: unknowns.ln_theta[j],
+            third: unknowns.third[j],
+            m: unknowns.m[j],
+            ue: ue[j],
+            transition: unknowns.transition[j].unwrap_or([0.0; 2]),
+        }
+    }
+
+    /// Residuals of station k and their derivatives by forward differences.
+    pub(super) fn linearise(
+        &self,
+        layout: &Layout,
+        unknowns: &Unknowns,
+        ue: &[f64],
+        k: usize,
+    ) -> StationLinearisation {
+        let (involved, count) = self.involved(layout, unknowns, k);
+        let mut vars = [NodeVars::default(); 3];
+        for p in 0..count {
+            vars[p] = self.vars_of(unknowns, ue, involved[p]);
+        }
+        let n_local = self.local_count(unknowns, k);
+        let rows = n_local + 1;
+        let base = self.residual(layout, unknowns, k, &vars);
+        let mut lin = StationLinearisation {
+            involved,
+            count,
+            n_local,
+            residual: base,
+            ..Default::default()
+        };
+        for p in 0..count {
+            let laminar = unknowns.regime[involved[p]] == Regime::Laminar;
+            // Variables: ln θ, third, m, ue, then (own station only) the transition unknowns.
+            let n_vars = if p == 0 { 4 + (n_local - SHARED_LOCAL) } else { 4 };
+            for v in 0..n_vars {
+                let x = vars[p].get(v);
+                let typical = match v {
+                    0 => 1.0,
+                    1 if laminar => 1.0,
+                    1 => 0.01,
+                    2 => 1e-6,
+                    3 => 0.1,
+                    _ => 1.0,
+                };
+                let h = DIFFERENCE_STEP * x.abs().max(typical);
+                let mut perturbed = vars;
+                perturbed[p].set(v, x + h);
+                let r = self.residual(layout, unknowns, k, &perturbed);
+                for row in 0..rows {
+                    let d = (r[row] - base[row]) / h;
+                    match v {
+                        0 | 1 => lin.d_local[p][row][v] = d,
+                        2 => lin.d_mass[p][row] = d,
+                        3 => lin.d_speed[p][row] = d,
+                        _ => lin.d_local[p][row][v - 2] = d,
+                    }
+                }
+            }
+        }
+        lin
+    }
+
+    /// Sum of squared residuals of every station (the merit function of the line search).
+    pub(super) fn residual_norm(&self, layout: &Layout, unknowns: &Unknowns) -> f64 {
+        let ue = layout.edge_speeds(&unknowns.m);
+        let mut total = 0.0;
+        for k in 0..layout.len() {
+            let (involved, count) = self.involved(layout, unknowns, k);
+            let mut vars = [NodeVars::default(); 3];
+            for p in 0..count {
+                vars[p] = self.vars_of(unknowns, &ue, involved[p]);
+            }
+            let rows = self.local_count(unknowns, k) + 1;
+            let r = self.residual(layout, unknowns, k, &vars);
+            total += norm_squared(&r[..rows]);
+        }
+        if total.is_finite() {
+            total
+        } else {
+            f64::INFINITY
+        }
+    }
+}

@@ -1,0 +1,242 @@
+//! Where each side's layer is laminar and where turbulent, and moving transition between
+//! intervals as the iterate demands.
+//!
+//! The first turbulent station of a side carries the transition point's place f in its
+//! interval. When the iterate has settled with f outside [0, 1], transition is moved one
+//! interval up- or downstream, carrying the point's laminar state along, so the residuals stay
+//! continuous. Independently, a laminar station upstream whose amplification factor has
+//! reached the critical value (or that lies past the trip) pulls transition up to it.
+
+use crate::boundary_layer::intervals::{transition_point, transition_shape_factor};
+use crate::boundary_layer::lag_entrainment::turbulent_start;
+use crate::boundary_layer::{LayerState, Regime};
+
+use super::layout::Layout;
+use super::{CoupledProblem, Unknowns};
+
+impl CoupledProblem<'_> {
+    /// Makes station k turbulent with the start state of a transition from its own state.
+    pub(super) fn make_turbulent(&self, unknowns: &mut Unknowns, ue: &[f64], k: usize) {
+        let state = self.layer_state(unknowns, ue, k);
+        self.make_turbulent_from(unknowns, ue, k, &state);
+    }
+
+    /// Makes station k turbulent with the turbulent start of the laminar state `laminar`.
+    fn make_turbulent_from(&self, unknowns: &mut Unknowns, ue: &[f64], k: usize, laminar: &LayerState) {
+        let start = turbulent_start(laminar, self.ctx.reynolds);
+        unknowns.regime[k] = Regime::Turbulent;
+        unknowns.third[k] = start.entrainment;
+        unknowns.ln_theta[k] = start.theta.ln();
+        unknowns.m[k] = start.theta * start.shape_factor * ue[k].max(1e-6);
+        unknowns.transition[k] = None;
+    }
+
+    /// Gives the first turbulent station of each side (after a laminar one) its transition
+    /// point, estimated from the laminar station before it; clears it everywhere else.
+    pub(super) fn place_transition_points(
+        &self,
+        layout: &Layout,
+        unknowns: &mut Unknowns,
+        ue: &[f64],
+    ) {
+        let mut keep = vec![false; layout.len()];
+        for (side, range) in [layout.upper.clone(), layout.lower.clone()]
+            .into_iter()
+            .enumerate()
+        {
+            let Some(t) = range
+                .clone()
+                .find(|&k| unknowns.regime[k] != Regime::Laminar)
+            else {
+                continue;
+            };
+            if t == range.start {
+                continue;
+            }
+            keep[t] = true;
+            if unknowns.transition[t].is_none() {
+                let a = self.station(unknowns, ue, t - 1);
+                let point = transition_point(
+                    &self.ctx,
+                    &a,
+                    ue[t],
+                    layout.s[t - 1],
+                    layout.s[t],
+                    layout.trips[side],
+                );
+                unknowns.transition[t] = Some([point.laminar.theta.ln(), point.fraction]);
+            }
+        }
+        for (k, flag) in keep.into_iter().enumerate() {
+            if !flag {
+                unknowns.transition[k] = None;
+            }
+        }
+    }
+
+    /// Moves transition where the iterate says it belongs; returns whether anything moved.
+    /// Moves happen only from a settled iterate (`settled`), when the laminar solution and
+    /// the transition point are accurate.
+    pub(super) fn update_regimes(
+        &self,
+        layout: &Layout,
+        unknowns: &mut Unknowns,
+        ue: &[f64],
+        settled: bool,
+    ) -> bool {
+        if !settled {
+            return false;
+        }
+        let mut moved = false;
+        for (side, range) in [layout.upper.clone(), layout.lower.clone()]
+            .into_iter()
+            .enumerate()
+        {
+            let trip = layout.trips[side];
+            let t = range
+                .clone()
+                .find(|&k| unknowns.regime[k] != Regime::Laminar)
+                .unwrap_or(range.end);
+            // A laminar station past the trip or at the critical N pulls transition up.
+            let early = (range.start..t).find(|&j| {
+                trip.is_some_and(|ts| ts <= layout.s[j] * (1.0 + 1e-12))
+                    || (j > range.start && unknowns.third[j] >= self.ctx.n_critical)
+            });
+            if let Some(j) = early {
+                self.transition_at(layout, unknowns, ue, range.clone(), j, t, trip);
+                moved = true;
+                continue;
+            }
+            if t <= range.start || t >= range.end {
+                continue;
+            }
+            let Some(point) = unknowns.transition[t] else {
+                continue;
+            };
+            let [ln_theta, f] = point;
+            let h_t = self.transition_shape(layout, unknowns, ue, t, f);
+            if f < 0.0 && t - 1 > range.start {
+                // One interval upstream: the station before becomes the transition station.
+                let ratio = (layout.s[t] - layout.s[t - 1]) / (layout.s[t - 1] - layout.s[t - 2]);
+                let laminar = LayerState {
+                    theta: ln_theta.exp(),
+                    shape_factor: h_t,
+                    entrainment: 0.0,
+                    edge_velocity: ue[t - 1],
+                };
+                self.make_turbulent_from(unknowns, ue, t - 1, &laminar);
+                unknowns.transition[t - 1] = Some([ln_theta, (1.0 + f * ratio).clamp(0.0, 1.0)]);
+                unknowns.transition[t] = None;
+                moved = true;
+            } else if f > 1.0 {
+                // One interval downstream (or off the trailing edge): station t turns laminar
+                // with the point's laminar state.
+                let a = self.station(unknowns, ue, t - 1);
+                let laminar = LayerState {
+                    theta: ln_theta.exp(),
+                    shape_factor: h_t,
+                    entrainment: 0.0,
+                    edge_velocity: ue[t].max(1e-6),
+                };
+                let ds = layout.s[t] - layout.s[t - 1];
+                let n = a.amplification
+                    + 0.5 * ds * (self.ctx.growth(&a.state) + self.ctx.growth(&laminar));
+                unknowns.regime[t] = Regime::Laminar;
+                unknowns.third[t] = n.min(self.ctx.n_critical - 1e-9);
+                unknowns.ln_theta[t] = ln_theta;
+                unknowns.m[t] = laminar.theta * laminar.shape_factor * laminar.edge_velocity;
+                unknowns.transition[t] = None;
+                if t + 1 < range.end {
+                    let ratio = ds / (layout.s[t + 1] - layout.s[t]);
+                    unknowns.transition[t + 1] =
+                        Some([ln_theta, ((f - 1.0) * ratio).clamp(0.0, 1.0)]);
+                }
+                moved = true;
+            }
+        }
+        moved
+    }
+
+    /// Laminar shape factor at the transition point of station t at fraction f (see
+    /// [`transition_shape_factor`]).
+    pub(super) fn transition_shape(
+        &self,
+        layout: &Layout,
+        unknowns: &Unknowns,
+        ue: &[f64],
+        t: usize,
+        f: f64,
+    ) -> f64 {
+        let a = self.layer_state(unknowns, ue, t - 1);
+        let previous = (t >= 2
+            && layout.side_of(t - 2) == layout.side_of(t)
+            && unknowns.regime[t - 2] == Regime::Laminar)
+            .then(|| (self.layer_state(unknowns, ue, t - 2).shape_factor, layout.s[t - 2]));
+        transition_shape_factor(previous, a.shape_factor, layout.s[t - 1], layout.s[t], f)
+    }
+
+    /// Transition moved up into the interval (j − 1, j) from the turbulent station t (or the
+    /// side's end): j becomes the transition station, with its point placed by the amplification
+    /// factors of j − 1 and j (or at the trip); the stations between start between the
+    /// turbulent start at j and the old first turbulent state.
+    #[allow(clippy::too_many_arguments)]
+    fn transition_at(
+        &self,
+        layout: &Layout,
+        unknowns: &mut Unknowns,
+        ue: &[f64],
+        range: std::ops::Range<usize>,
+        j: usize,
+        t: usize,
+        trip: Option<f64>,
+    ) {
+        if j == range.start {
+            // Trip ahead of the first station: turbulent from the start.
+            self.make_turbulent(unknowns, ue, j);
+        } else {
+            let (a, b) = (self.station(unknowns, ue, j - 1), self.station(unknowns, ue, j));
+            let (sa, sb) = (layout.s[j - 1], layout.s[j]);
+            let f = match trip.filter(|&ts| ts > sa && ts <= sb) {
+                Some(ts) => (ts - sa) / (sb - sa),
+                None => {
+                    let (na, nb) = (a.amplification, b.amplification);
+                    if nb > na {
+                        ((self.ctx.n_critical - na) / (nb - na)).clamp(0.0, 1.0)
+                    } else {
+                        0.5
+                    }
+                }
+            };
+            let ln_theta = a.state.theta.ln() + f * (b.state.theta / a.state.theta).ln();
+            let h = a.state.shape_factor + f * (b.state.shape_factor - a.state.shape_factor);
+            let laminar = LayerState {
+                theta: ln_theta.exp(),
+                shape_factor: h,
+                entrainment: 0.0,
+                edge_velocity: ue[j],
+            };
+            self.make_turbulent_from(unknowns, ue, j, &laminar);
+            unknowns.transition[j] = Some([ln_theta, f]);
+        }
+        if t < range.end {
+            unknowns.transition[t] = None;
+            let anchor = self.layer_state(unknowns, ue, t);
+            let begin = self.layer_state(unknowns, ue, j);
+            let (ce_begin, ce_anchor) = (unknowns.third[j], unknowns.third[t]);
+            for k in j + 1..t {
+                let w = (layout.s[k] - layout.s[j]) / (layout.s[t] - layout.s[j]);
+                let ln_theta = begin.theta.ln() + w * (anchor.theta / begin.theta).ln();
+                let h = begin.shape_factor + w * (anchor.shape_factor - begin.shape_factor);
+                unknowns.regime[k] = Regime::Turbulent;
+                unknowns.ln_theta[k] = ln_theta;
+                unknowns.third[k] = ce_begin + w * (ce_anchor - ce_begin);
+                unknowns.m[k] = h * ln_theta.exp() * ue[k].max(1e-6);
+                unknowns.transition[k] = None;
+            }
+        } else {
+            for k in j + 1..t {
+                self.make_turbulent(unknowns, ue, k);
+            }
+        }
+    }
+}
