@@ -149,8 +149,9 @@ impl OrrSommerfeldEnvelope {
         if x <= 0.0 {
             return 0.0;
         }
-        let values: Vec<f64> = self.slopes.iter().map(|s| s.value(h).max(0.0)).collect();
-        onset_hermite(&self.log_ratios, &values, x).max(0.0)
+        // Only the nodes the interpolation touches are evaluated (at most four).
+        let value = |j: usize| self.slopes[j].value(h).max(0.0);
+        onset_hermite(&self.log_ratios, &value, x).max(0.0)
     }
 }
 
@@ -166,38 +167,51 @@ impl AmplificationModel for OrrSommerfeldEnvelope {
 /// Cubic Hermite interpolation of (x, v) with zero slope at the first node (a smooth onset from
 /// the zero growth below the critical point), three-point slopes inside (linear in the data, so
 /// the result is as smooth in H as the data) and a bounded tanh extension beyond the last node.
-fn onset_hermite(x: &[f64], v: &[f64], t: f64) -> f64 {
+fn onset_hermite(x: &[f64], value: &dyn Fn(usize) -> f64, t: f64) -> f64 {
     let n = x.len();
-    let slope = |i: usize| -> f64 {
-        if i == 0 {
+    // The interval (or the last node), then only the values it needs: nodes i − 1 .. i + 2.
+    let beyond = t >= x[n - 1];
+    let i = if beyond {
+        n - 1
+    } else {
+        x.partition_point(|&xi| xi <= t)
+            .saturating_sub(1)
+            .min(n - 2)
+    };
+    let first = i.saturating_sub(1);
+    let last = (i + 2).min(n - 1);
+    let mut local = [0.0; 4];
+    for j in first..=last {
+        local[j - first] = value(j);
+    }
+    let v = |j: usize| local[j - first];
+    let slope = |k: usize| -> f64 {
+        if k == 0 {
             0.0
-        } else if i == n - 1 {
-            (v[n - 1] - v[n - 2]) / (x[n - 1] - x[n - 2])
+        } else if k == n - 1 {
+            (v(n - 1) - v(n - 2)) / (x[n - 1] - x[n - 2])
         } else {
-            let (h0, h1) = (x[i] - x[i - 1], x[i + 1] - x[i]);
-            let (d0, d1) = ((v[i] - v[i - 1]) / h0, (v[i + 1] - v[i]) / h1);
+            let (h0, h1) = (x[k] - x[k - 1], x[k + 1] - x[k]);
+            let (d0, d1) = ((v(k) - v(k - 1)) / h0, (v(k + 1) - v(k)) / h1);
             (h1 * d0 + h0 * d1) / (h0 + h1)
         }
     };
-    if t >= x[n - 1] {
+    if beyond {
         let d = slope(n - 1);
-        let w = if d < 0.0 && v[n - 1] > 0.0 {
-            RATIO_EXTENSION.min(0.5 * v[n - 1] / -d)
+        let end = v(n - 1);
+        let w = if d < 0.0 && end > 0.0 {
+            RATIO_EXTENSION.min(0.5 * end / -d)
         } else {
             RATIO_EXTENSION
         };
-        return v[n - 1] + d * w * ((t - x[n - 1]) / w).tanh();
+        return end + d * w * ((t - x[n - 1]) / w).tanh();
     }
-    let i = x
-        .partition_point(|&xi| xi <= t)
-        .saturating_sub(1)
-        .min(n - 2);
     let h = x[i + 1] - x[i];
     let s = (t - x[i]) / h;
     let (s2, s3) = (s * s, s * s * s);
-    (2.0 * s3 - 3.0 * s2 + 1.0) * v[i]
+    (2.0 * s3 - 3.0 * s2 + 1.0) * v(i)
         + (s3 - 2.0 * s2 + s) * h * slope(i)
-        + (-2.0 * s3 + 3.0 * s2) * v[i + 1]
+        + (-2.0 * s3 + 3.0 * s2) * v(i + 1)
         + (s3 - s2) * h * slope(i + 1)
 }
 

@@ -49,7 +49,7 @@ fn solve_case_model(
 ) -> Option<CoupledSolution> {
     let problem = CoupledProblem::new(case, settings);
     let mut best: Option<CoupledSolution> = None;
-    let mut keep = |solution: CoupledSolution, best: &mut Option<CoupledSolution>| {
+    let keep = |solution: CoupledSolution, best: &mut Option<CoupledSolution>| {
         let converged = solution.converged;
         if converged || best.as_ref().is_none_or(|b| !b.converged) {
             *best = Some(solution);

@@ -140,100 +140,162 @@ fn complement_and_left_inverse(
     Some((complement, left))
 }
 
-/// Solves the linearised coupled system; `influence[k][l]` = ∂ue_k/∂m_l. None when a station's
-/// local Jacobian or the reduced system is singular.
+/// A factorised Newton system: everything of the elimination that depends on the Jacobian,
+/// so that further right-hand sides (residuals of later iterates, the Jacobian kept) cost only
+/// O(K²) (a chord, or modified Newton, step).
+pub(crate) struct Factorisation {
+    k_total: usize,
+    /// δz_k = offset_k + gain_k δm, gain rows per station and local unknown.
+    gain: Vec<f64>,
+    /// Orthogonal complement of each station's local columns.
+    complement: Vec<[f64; MAX_EQUATIONS]>,
+    /// Least-squares left inverse of each station's local columns.
+    left: Vec<[[f64; MAX_EQUATIONS]; MAX_LOCAL]>,
+    /// LU factors of the reduced system in δm.
+    reduced: LuFactors,
+    /// The Jacobian the factorisation was made from (residuals ignored).
+    stations: Vec<StationLinearisation>,
+}
+
+impl Factorisation {
+    fn gain_row(&self, k: usize, c: usize) -> usize {
+        (k * MAX_LOCAL + c) * self.k_total
+    }
+
+    /// Factorises the linearised coupled system; `influence[k][l]` = ∂ue_k/∂m_l. None when a
+    /// station's local Jacobian or the reduced system is singular.
+    pub(crate) fn new(stations: &[StationLinearisation], influence: &DenseMatrix) -> Option<Self> {
+        let k_total = stations.len();
+        let mut gain = vec![0.0; k_total * MAX_LOCAL * k_total];
+        let mut complement = vec![[0.0; MAX_EQUATIONS]; k_total];
+        let mut lefts = vec![[[0.0; MAX_EQUATIONS]; MAX_LOCAL]; k_total];
+        let mut reduced = DenseMatrix::zeros(k_total, k_total);
+        let mut coupling = vec![0.0; MAX_EQUATIONS * k_total];
+        let gain_row = |k: usize, c: usize| (k * MAX_LOCAL + c) * k_total;
+        for (k, lin) in stations.iter().enumerate() {
+            let rows = lin.n_equations();
+            coupling[..rows * k_total].iter_mut().for_each(|v| *v = 0.0);
+            for p in 0..lin.count {
+                let j = lin.involved[p];
+                for r in 0..rows {
+                    let row = &mut coupling[r * k_total..(r + 1) * k_total];
+                    row[j] += lin.d_mass[p][r];
+                    let ds = lin.d_speed[p][r];
+                    if ds != 0.0 {
+                        for (v, d) in row.iter_mut().zip(influence.row(j)) {
+                            *v += ds * d;
+                        }
+                    }
+                    if p >= 1 {
+                        for c in 0..SHARED_LOCAL {
+                            let e = lin.d_local[p][r][c];
+                            if e == 0.0 {
+                                continue;
+                            }
+                            let start = gain_row(j, c);
+                            let g = &gain[start..start + k_total];
+                            for (v, gv) in row.iter_mut().zip(g) {
+                                *v += e * gv;
+                            }
+                        }
+                    }
+                }
+            }
+            let (q, left) = complement_and_left_inverse(&lin.d_local[0], lin.n_local)?;
+            // Reduced equation: q·(rhs − M δm) = 0.
+            {
+                let row = reduced.row_mut(k);
+                for r in 0..rows {
+                    let m_row = &coupling[r * k_total..(r + 1) * k_total];
+                    for (v, mv) in row.iter_mut().zip(m_row) {
+                        *v += q[r] * mv;
+                    }
+                }
+            }
+            // δz = L (rhs − M δm): the gain part.
+            for c in 0..lin.n_local {
+                let start = gain_row(k, c);
+                let g = &mut gain[start..start + k_total];
+                for r in 0..rows {
+                    let l = left[c][r];
+                    if l == 0.0 {
+                        continue;
+                    }
+                    let m_row = &coupling[r * k_total..(r + 1) * k_total];
+                    for (gv, mv) in g.iter_mut().zip(m_row) {
+                        *gv -= l * mv;
+                    }
+                }
+            }
+            complement[k] = q;
+            lefts[k] = left;
+        }
+        let reduced = LuFactors::new(reduced).ok()?;
+        Some(Factorisation {
+            k_total,
+            gain,
+            complement,
+            left: lefts,
+            reduced,
+            stations: stations.to_vec(),
+        })
+    }
+
+    /// Newton corrections for the residuals `residuals` (one per station, in the layout the
+    /// factorisation was made for).
+    pub(crate) fn corrections(&self, residuals: &[[f64; MAX_EQUATIONS]]) -> Option<Corrections> {
+        let k_total = self.k_total;
+        let mut offset = vec![[0.0; MAX_LOCAL]; k_total];
+        let mut reduced_rhs = vec![0.0; k_total];
+        for (k, lin) in self.stations.iter().enumerate() {
+            let rows = lin.n_equations();
+            let mut rhs = [0.0; MAX_EQUATIONS];
+            for r in 0..rows {
+                rhs[r] = -residuals[k][r];
+            }
+            for p in 1..lin.count {
+                let j = lin.involved[p];
+                for r in 0..rows {
+                    for c in 0..SHARED_LOCAL {
+                        rhs[r] -= lin.d_local[p][r][c] * offset[j][c];
+                    }
+                }
+            }
+            let q = &self.complement[k];
+            reduced_rhs[k] = (0..rows).map(|r| q[r] * rhs[r]).sum();
+            for c in 0..lin.n_local {
+                offset[k][c] = (0..rows).map(|r| self.left[k][c][r] * rhs[r]).sum();
+            }
+        }
+        let mass = self.reduced.solve(&reduced_rhs);
+        if !mass.iter().all(|v| v.is_finite()) {
+            return None;
+        }
+        let mut local = vec![[0.0; MAX_LOCAL]; k_total];
+        for (k, lin) in self.stations.iter().enumerate() {
+            for c in 0..lin.n_local {
+                let start = self.gain_row(k, c);
+                let g = &self.gain[start..start + k_total];
+                let z = offset[k][c] + g.iter().zip(&mass).map(|(a, b)| a * b).sum::<f64>();
+                if !z.is_finite() {
+                    return None;
+                }
+                local[k][c] = z;
+            }
+        }
+        Some(Corrections { local, mass })
+    }
+}
+
+/// Solves the linearised coupled system once (factorisation and corrections).
+#[cfg(test)]
 pub(crate) fn solve_step(
     stations: &[StationLinearisation],
     influence: &DenseMatrix,
 ) -> Option<Corrections> {
-    let k_total = stations.len();
-    let mut gain = vec![0.0; k_total * MAX_LOCAL * k_total];
-    let mut offset = vec![[0.0; MAX_LOCAL]; k_total];
-    let mut reduced = DenseMatrix::zeros(k_total, k_total);
-    let mut reduced_rhs = vec![0.0; k_total];
-    let mut coupling = vec![0.0; MAX_EQUATIONS * k_total];
-    let gain_row = |k: usize, c: usize| (k * MAX_LOCAL + c) * k_total;
-    for (k, lin) in stations.iter().enumerate() {
-        let rows = lin.n_equations();
-        coupling[..rows * k_total].iter_mut().for_each(|v| *v = 0.0);
-        let mut rhs = [0.0; MAX_EQUATIONS];
-        for r in 0..rows {
-            rhs[r] = -lin.residual[r];
-        }
-        for p in 0..lin.count {
-            let j = lin.involved[p];
-            for r in 0..rows {
-                let row = &mut coupling[r * k_total..(r + 1) * k_total];
-                row[j] += lin.d_mass[p][r];
-                let ds = lin.d_speed[p][r];
-                if ds != 0.0 {
-                    for (v, d) in row.iter_mut().zip(influence.row(j)) {
-                        *v += ds * d;
-                    }
-                }
-                if p >= 1 {
-                    for c in 0..SHARED_LOCAL {
-                        let e = lin.d_local[p][r][c];
-                        if e == 0.0 {
-                            continue;
-                        }
-                        let start = gain_row(j, c);
-                        let g = &gain[start..start + k_total];
-                        for (v, gv) in row.iter_mut().zip(g) {
-                            *v += e * gv;
-                        }
-                        rhs[r] -= e * offset[j][c];
-                    }
-                }
-            }
-        }
-        let (q, left) = complement_and_left_inverse(&lin.d_local[0], lin.n_local)?;
-        // Reduced equation: q·(rhs − M δm) = 0.
-        {
-            let row = reduced.row_mut(k);
-            for r in 0..rows {
-                let m_row = &coupling[r * k_total..(r + 1) * k_total];
-                for (v, mv) in row.iter_mut().zip(m_row) {
-                    *v += q[r] * mv;
-                }
-            }
-        }
-        reduced_rhs[k] = (0..rows).map(|r| q[r] * rhs[r]).sum();
-        // δz = L (rhs − M δm).
-        for c in 0..lin.n_local {
-            offset[k][c] = (0..rows).map(|r| left[c][r] * rhs[r]).sum();
-            let start = gain_row(k, c);
-            let g = &mut gain[start..start + k_total];
-            for r in 0..rows {
-                let l = left[c][r];
-                if l == 0.0 {
-                    continue;
-                }
-                let m_row = &coupling[r * k_total..(r + 1) * k_total];
-                for (gv, mv) in g.iter_mut().zip(m_row) {
-                    *gv -= l * mv;
-                }
-            }
-        }
-    }
-    let lu = LuFactors::new(reduced).ok()?;
-    let mass = lu.solve(&reduced_rhs);
-    if !mass.iter().all(|v| v.is_finite()) {
-        return None;
-    }
-    let mut local = vec![[0.0; MAX_LOCAL]; k_total];
-    for (k, lin) in stations.iter().enumerate() {
-        for c in 0..lin.n_local {
-            let start = gain_row(k, c);
-            let g = &gain[start..start + k_total];
-            let z = offset[k][c] + g.iter().zip(&mass).map(|(a, b)| a * b).sum::<f64>();
-            if !z.is_finite() {
-                return None;
-            }
-            local[k][c] = z;
-        }
-    }
-    Some(Corrections { local, mass })
+    let factorisation = Factorisation::new(stations, influence)?;
+    let residuals: Vec<[f64; MAX_EQUATIONS]> = stations.iter().map(|s| s.residual).collect();
+    factorisation.corrections(&residuals)
 }
 
 #[cfg(test)]

@@ -219,6 +219,25 @@ impl CoupledProblem<'_> {
         lin
     }
 
+    /// Residuals of every station at the current iterate (no derivatives).
+    pub(super) fn residuals(
+        &self,
+        layout: &Layout,
+        unknowns: &Unknowns,
+        ue: &[f64],
+    ) -> Vec<[f64; MAX_EQUATIONS]> {
+        (0..layout.len())
+            .map(|k| {
+                let (involved, count) = self.involved(layout, unknowns, k);
+                let mut vars = [NodeVars::default(); 3];
+                for p in 0..count {
+                    vars[p] = self.vars_of(unknowns, ue, involved[p]);
+                }
+                self.residual(layout, unknowns, k, &vars)
+            })
+            .collect()
+    }
+
     /// Sum of squared residuals of every station (the merit function of the line search).
     pub(super) fn residual_norm(&self, layout: &Layout, unknowns: &Unknowns) -> f64 {
         let ue = layout.edge_speeds(&unknowns.m);

@@ -34,7 +34,7 @@ use super::iteration::CoupledSolution;
 use super::model::CaseModel;
 use super::settings::ViscousSettings;
 use super::stagnation::{locate_stagnation, split_surface};
-use elimination::solve_step;
+use elimination::{Factorisation, MAX_EQUATIONS};
 use layout::Layout;
 
 /// Largest residual (any station, any equation) of a converged solution. The residuals are
@@ -45,6 +45,9 @@ pub(crate) const NEWTON_TOLERANCE: f64 = 1e-8;
 const REGIME_MOVE_RESIDUAL: f64 = 1e-3;
 /// Halvings of a Newton step tried when it does not reduce the residual.
 const LINE_SEARCH_HALVINGS: usize = 4;
+/// A chord step (the last Jacobian kept) is accepted as long as it cuts the residual's
+/// 2-norm at least by this factor; otherwise the Jacobian is refreshed.
+const CHORD_REDUCTION: f64 = 0.25;
 /// Cap on the Newton iterations of one case.
 const MAX_NEWTON_ITERATIONS: usize = 40;
 /// Largest shape factor the residuals are evaluated at (keeps a wild first iterate, with an
@@ -168,15 +171,25 @@ impl<'a> CoupledProblem<'a> {
         let mut residual = f64::INFINITY;
         let mut converged = false;
         let mut iterations = 0;
+        // The factorised Jacobian of the last full Newton step, kept for chord steps while
+        // they reduce the residual fast enough.
+        let mut frozen: Option<Factorisation> = None;
         for iteration in 1..=MAX_NEWTON_ITERATIONS.min(self.settings.max_iterations.max(1)) {
             iterations = iteration;
             let ue = layout.edge_speeds(&unknowns.m);
-            let lins: Vec<_> = (0..layout.len())
-                .map(|k| self.linearise(&layout, &unknowns, &ue, k))
-                .collect();
-            residual = lins
-                .iter()
-                .flat_map(|l| l.residual[..l.n_equations()].iter())
+            let lins: Option<Vec<_>> = frozen.is_none().then(|| {
+                (0..layout.len())
+                    .map(|k| self.linearise(&layout, &unknowns, &ue, k))
+                    .collect()
+            });
+            let residuals: Vec<[f64; MAX_EQUATIONS]> = match &lins {
+                Some(l) => l.iter().map(|s| s.residual).collect(),
+                None => self.residuals(&layout, &unknowns, &ue),
+            };
+            let row_counts: Vec<usize> =
+                (0..layout.len()).map(|k| self.local_count(&unknowns, k) + 1).collect();
+            residual = (0..layout.len())
+                .flat_map(|k| residuals[k][..row_counts[k]].iter())
                 .fold(0.0_f64, |m, v| if v.is_finite() { m.max(v.abs()) } else { f64::NAN });
             if !residual.is_finite() {
                 residual = f64::NAN;
@@ -185,37 +198,52 @@ impl<'a> CoupledProblem<'a> {
             let settled = residual < REGIME_MOVE_RESIDUAL;
             let moved = self.update_regimes(&layout, &mut unknowns, &ue, settled);
             if tracing() {
-                self.trace(iteration, residual, moved, &layout, &unknowns, &lins);
+                self.trace(iteration, residual, moved, &layout, &unknowns, &residuals);
             }
             if !moved && residual < NEWTON_TOLERANCE {
                 converged = true;
                 break;
             }
             if moved {
+                frozen = None;
                 continue;
             }
-            let Some(step) = solve_step(&lins, &layout.influence) else {
+            let chord = frozen.is_some();
+            if let Some(l) = &lins {
+                frozen = Factorisation::new(l, &layout.influence);
+            }
+            let Some(step) = frozen.as_ref().and_then(|f| f.corrections(&residuals)) else {
+                if chord {
+                    frozen = None;
+                    continue;
+                }
                 break;
             };
             // Backtracking on the residual's 2-norm: a step that does not reduce it is halved
             // (up to LINE_SEARCH_HALVINGS times, the last one taken regardless).
-            let base_norm: f64 = lins
-                .iter()
-                .map(|l| norm_squared(&l.residual[..l.n_equations()]))
+            let base_norm: f64 = (0..layout.len())
+                .map(|k| norm_squared(&residuals[k][..row_counts[k]]))
                 .sum();
             let mut scale = 1.0;
             let mut accepted = unknowns.clone();
+            let mut accepted_norm = f64::INFINITY;
             for attempt in 0..=LINE_SEARCH_HALVINGS {
                 let mut trial = unknowns.clone();
                 self.apply_step(&layout, &mut trial, &ue, &step, scale);
                 let trial_norm = self.residual_norm(&layout, &trial);
                 accepted = trial;
+                accepted_norm = trial_norm;
                 if trial_norm < base_norm || attempt == LINE_SEARCH_HALVINGS {
                     break;
                 }
                 scale *= 0.5;
             }
             unknowns = accepted;
+            // A chord step that did not cut the residual by CHORD_REDUCTION (in 2-norm)
+            // means the Jacobian is stale: refresh it.
+            if scale < 1.0 || accepted_norm > CHORD_REDUCTION * CHORD_REDUCTION * base_norm {
+                frozen = None;
+            }
             // Re-locate the stagnation point; a change of split re-maps the stations.
             let m_full = layout.node_mass_defect(case, &unknowns.m);
             let new_layout = self.layout_for(&m_full, layout.split.stagnation.node)?;
@@ -224,6 +252,7 @@ impl<'a> CoupledProblem<'a> {
             {
                 let state = output::newton_state(&layout, &unknowns, case);
                 unknowns = self.map_state(&new_layout, &state);
+                frozen = None;
             }
             layout = new_layout;
         }
@@ -241,20 +270,35 @@ impl<'a> CoupledProblem<'a> {
         moved: bool,
         layout: &Layout,
         unknowns: &Unknowns,
-        lins: &[elimination::StationLinearisation],
+        residuals: &[[f64; MAX_EQUATIONS]],
     ) {
-        let worst = lins
+        let worst = residuals
             .iter()
             .enumerate()
-            .max_by(|a, b| {
-                let fa = norm_squared(&a.1.residual);
-                let fb = norm_squared(&b.1.residual);
-                fa.total_cmp(&fb)
-            })
-            .map(|(k, l)| (k, l.residual));
+            .max_by(|a, b| norm_squared(a.1).total_cmp(&norm_squared(b.1)))
+            .map(|(k, r)| (k, *r));
         let first_turbulent = |range: std::ops::Range<usize>| {
             range.clone().find(|&k| unknowns.regime[k] != Regime::Laminar).map(|k| (k, unknowns.transition[k].map(|t| t[1])))
         };
+        if let Ok(range) = std::env::var("WAKERANK_TRACE_STATIONS") {
+            let ue = layout.edge_speeds(&unknowns.m);
+            let (a, b) = range.split_once('-').unwrap_or(("0", "5"));
+            let (a, b): (usize, usize) = (a.parse().unwrap_or(0), b.parse().unwrap_or(5));
+            for k in a..=b.min(layout.len() - 1) {
+                let st = self.layer_state(unknowns, &ue, k);
+                eprintln!("   k {k} {:?} {:?} s {:.6e} ue {:.5} th {:.4e} H {:.4} c {:.4} R {:?}", layout.role[k], unknowns.regime[k], layout.s[k], ue[k], st.theta, st.shape_factor, unknowns.third[k], &residuals[k]);
+            }
+        }
+        if std::env::var_os("WAKERANK_TRACE_TRANSITION").is_some() {
+            let ue = layout.edge_speeds(&unknowns.m);
+            for k in 0..layout.len() {
+                if let Some([lt, f]) = unknowns.transition[k] {
+                    let a = self.layer_state(unknowns, &ue, k - 1);
+                    let b = self.layer_state(unknowns, &ue, k);
+                    eprintln!("   transition k {k}: a th {:.4e} H {:.3} N {:.3} ue {:.4} | t th {:.4e} f {f:.3} | b th {:.4e} H {:.3} ce {:.4} ue {:.4} | R {:?}", a.theta, a.shape_factor, unknowns.third[k-1], a.edge_velocity, lt.exp(), b.theta, b.shape_factor, b.entrainment, b.edge_velocity, residuals[k]);
+                }
+            }
+        }
         eprintln!(
             "newton it {iteration} residual {residual:.3e} moved {moved} worst {worst:?} transition {:?} {:?}",
             first_turbulent(layout.upper.clone()),

@@ -9,10 +9,17 @@
 
 use crate::boundary_layer::intervals::{transition_point, transition_shape_factor};
 use crate::boundary_layer::lag_entrainment::turbulent_start;
-use crate::boundary_layer::{LayerState, Regime};
+use crate::boundary_layer::march::{laminar_step, EdgeCondition, StepMemory};
+use crate::boundary_layer::{LayerState, MarchSettings, Regime};
 
 use super::layout::Layout;
 use super::{CoupledProblem, Unknowns};
+
+/// How far outside [0, 1] the transition point of an unsettled iterate may lie before it moves.
+const UNSETTLED_FRACTION_SLACK: f64 = 0.5;
+/// How far past the critical N a laminar station of an unsettled iterate may be before it
+/// pulls transition up.
+const UNSETTLED_N_MARGIN: f64 = 1.0;
 
 impl CoupledProblem<'_> {
     /// Makes station k turbulent with the start state of a transition from its own state.
@@ -75,8 +82,9 @@ impl CoupledProblem<'_> {
     }
 
     /// Moves transition where the iterate says it belongs; returns whether anything moved.
-    /// Moves happen only from a settled iterate (`settled`), when the laminar solution and
-    /// the transition point are accurate.
+    /// From a settled iterate (`settled`), when the laminar solution and the transition point
+    /// are accurate, any point outside its interval moves; from an unsettled one only points
+    /// well outside (the equations of a point several intervals away are meaningless).
     pub(super) fn update_regimes(
         &self,
         layout: &Layout,
@@ -84,9 +92,6 @@ impl CoupledProblem<'_> {
         ue: &[f64],
         settled: bool,
     ) -> bool {
-        if !settled {
-            return false;
-        }
         let mut moved = false;
         for (side, range) in [layout.upper.clone(), layout.lower.clone()]
             .into_iter()
@@ -98,9 +103,11 @@ impl CoupledProblem<'_> {
                 .find(|&k| unknowns.regime[k] != Regime::Laminar)
                 .unwrap_or(range.end);
             // A laminar station past the trip or at the critical N pulls transition up.
+            // (From an unsettled iterate only when N is well past the critical value.)
+            let margin = if settled { 0.0 } else { UNSETTLED_N_MARGIN };
             let early = (range.start..t).find(|&j| {
                 trip.is_some_and(|ts| ts <= layout.s[j] * (1.0 + 1e-12))
-                    || (j > range.start && unknowns.third[j] >= self.ctx.n_critical)
+                    || (j > range.start && unknowns.third[j] >= self.ctx.n_critical + margin)
             });
             if let Some(j) = early {
                 self.transition_at(layout, unknowns, ue, range.clone(), j, t, trip);
@@ -114,8 +121,10 @@ impl CoupledProblem<'_> {
                 continue;
             };
             let [ln_theta, f] = point;
-            let h_t = self.transition_shape(layout, unknowns, ue, t, f);
-            if f < 0.0 && t - 1 > range.start {
+            // From an unsettled iterate only when the point is well outside its interval.
+            let slack = if settled { 0.0 } else { UNSETTLED_FRACTION_SLACK };
+            if f < -slack && t - 1 > range.start {
+                let h_t = self.transition_shape(layout, unknowns, ue, t, f);
                 // One interval upstream: the station before becomes the transition station.
                 let ratio = (layout.s[t] - layout.s[t - 1]) / (layout.s[t - 1] - layout.s[t - 2]);
                 let laminar = LayerState {
@@ -128,22 +137,43 @@ impl CoupledProblem<'_> {
                 unknowns.transition[t - 1] = Some([ln_theta, (1.0 + f * ratio).clamp(0.0, 1.0)]);
                 unknowns.transition[t] = None;
                 moved = true;
-            } else if f > 1.0 {
+            } else if f > 1.0 + slack {
                 // One interval downstream (or off the trailing edge): station t turns laminar
                 // with the point's laminar state.
                 let a = self.station(unknowns, ue, t - 1);
-                let laminar = LayerState {
-                    theta: ln_theta.exp(),
-                    shape_factor: h_t,
+                let ds = layout.s[t] - layout.s[t - 1];
+                // The laminar state at t: the laminar interval's own equations with the
+                // current edge speed, or the point's state where they have no solution.
+                // (The point lies at f > 1: interpolate its laminar state back to f = 1.)
+                let ln_theta_at_t = a.state.theta.ln() + (ln_theta - a.state.theta.ln()) / f;
+                let estimate = LayerState {
+                    theta: ln_theta_at_t.exp(),
+                    shape_factor: self.transition_shape(layout, unknowns, ue, t, 1.0),
                     entrainment: 0.0,
                     edge_velocity: ue[t].max(1e-6),
                 };
-                let ds = layout.s[t] - layout.s[t - 1];
+                let (stepped, ok) = laminar_step(
+                    &a.state,
+                    ds,
+                    EdgeCondition {
+                        external_velocity: ue[t].max(1e-6),
+                        interaction_coefficient: 0.0,
+                    },
+                    &MarchSettings::new(self.ctx.reynolds),
+                    self.ctx.closure,
+                    false,
+                    &mut StepMemory::default(),
+                );
+                let laminar = if ok && stepped.theta.is_finite() && stepped.shape_factor.is_finite() {
+                    stepped
+                } else {
+                    estimate
+                };
                 let n = a.amplification
                     + 0.5 * ds * (self.ctx.growth(&a.state) + self.ctx.growth(&laminar));
                 unknowns.regime[t] = Regime::Laminar;
                 unknowns.third[t] = n.min(self.ctx.n_critical - 1e-9);
-                unknowns.ln_theta[t] = ln_theta;
+                unknowns.ln_theta[t] = laminar.theta.ln();
                 unknowns.m[t] = laminar.theta * laminar.shape_factor * laminar.edge_velocity;
                 unknowns.transition[t] = None;
                 if t + 1 < range.end {

@@ -94,7 +94,8 @@ impl CoupledProblem<'_> {
             unknowns.third[k] += own * dc;
             if let Some(t) = unknowns.transition[k].as_mut() {
                 t[0] += own * dlt;
-                t[1] += own * df;
+                // Kept within one interval either side: beyond that the point moves.
+                t[1] = (t[1] + own * df).clamp(-1.0, 2.0);
             }
             unknowns.m[k] = (unknowns.m[k] + own * step.mass[k]).max(1e-12);
             if unknowns.regime[k] != Regime::Laminar {
