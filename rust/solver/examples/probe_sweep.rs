@@ -41,5 +41,9 @@ fn main() {
             r.transition_upper, r.transition_lower, r.converged, r.iterations, r.residual
         );
     }
-    println!("{ok}/{} converged in {dt:.2} s ({:.1} converged/s)", rows.len(), ok as f64 / dt);
+    println!(
+        "{ok}/{} converged in {dt:.2} s ({:.1} converged/s)",
+        rows.len(),
+        ok as f64 / dt
+    );
 }

@@ -139,13 +139,6 @@ pub(crate) struct TransitionPoint {
     pub fraction: f64,
     /// Laminar state at the transition point.
     pub laminar: LayerState,
-    /// True when the trip, not the amplification criterion, sets the point.
-    pub forced: bool,
-    /// True when neither criterion is met inside the interval (the point is its end and the
-    /// transition belongs further downstream).
-    pub beyond: bool,
-    /// Amplification factor the laminar layer would have at the end of the interval.
-    pub amplification_at_end: f64,
 }
 
 /// Largest change of the shape factor in the explicit laminar step of a transition interval.
@@ -275,18 +268,15 @@ pub(crate) fn transition_point(
     } else {
         None
     };
-    let (fraction, forced, beyond) = match (free_fraction, trip_fraction) {
-        (Some(f), Some(t)) if t < f => (t, true, false),
-        (Some(f), _) => (f, false, false),
-        (None, Some(t)) => (t, true, false),
-        (None, None) => (1.0, false, true),
+    let fraction = match (free_fraction, trip_fraction) {
+        (Some(f), Some(t)) => f.min(t),
+        (Some(f), None) => f,
+        (None, Some(t)) => t,
+        (None, None) => 1.0,
     };
     TransitionPoint {
         fraction,
         laminar: laminar_at_fraction(ctx, &a.state, ue_b, ds, fraction),
-        forced,
-        beyond,
-        amplification_at_end: n_end,
     }
 }
 
@@ -379,8 +369,8 @@ pub(crate) fn transition_station_residual(
 ) -> [f64; 5] {
     let ds = sb - sa;
     let [ln_theta, f] = transition;
-    let ue_t = (a.state.edge_velocity + f * (b.state.edge_velocity - a.state.edge_velocity))
-        .max(1e-6);
+    let ue_t =
+        (a.state.edge_velocity + f * (b.state.edge_velocity - a.state.edge_velocity)).max(1e-6);
     let point = LayerState {
         theta: ln_theta.exp(),
         shape_factor: transition_shape_factor(previous, a.state.shape_factor, sa, sb, f),
@@ -398,9 +388,7 @@ pub(crate) fn transition_station_residual(
         ctx.reynolds,
         ctx.closure,
     );
-    let trip_fraction = trip_s
-        .filter(|&t| t > sa && t <= sb)
-        .map(|t| (t - sa) / ds);
+    let trip_fraction = trip_s.filter(|&t| t > sa && t <= sb).map(|t| (t - sa) / ds);
     let r2 = match trip_fraction {
         Some(ft) => f - ft,
         None => {

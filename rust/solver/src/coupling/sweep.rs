@@ -8,8 +8,8 @@ use crate::inviscid::compressibility::karman_tsien_cp as karman_tsien;
 
 use super::forces::{far_wake_drag, friction_drag, integrate_pressure, squire_young};
 use super::iteration::{solve_case, CoupledSolution, WarmStart, CAUTIOUS, PRIMARY, STIFF};
-use super::newton::{CoupledProblem, NewtonState};
 use super::model::{CaseModel, SectionModel};
+use super::newton::{CoupledProblem, NewtonState};
 use super::settings::ViscousSettings;
 use super::stagnation::{x_at_arc_length, SideNodes};
 use super::{StationRegime, StationRow, StationSide, ViscousRow};
@@ -69,7 +69,12 @@ fn solve_case_model(
         ..settings.clone()
     };
     // Each quasi-simultaneous attempt, converged or not, is finished by the Newton iteration.
-    let attempts = [(&starter, PRIMARY), (settings, PRIMARY), (settings, CAUTIOUS), (settings, STIFF)];
+    let attempts = [
+        (&starter, PRIMARY),
+        (settings, PRIMARY),
+        (settings, CAUTIOUS),
+        (settings, STIFF),
+    ];
     for (attempt_settings, strategy) in attempts {
         for start in [warm_defect, None] {
             if let Ok(first) = solve_case(case, attempt_settings, start, strategy) {

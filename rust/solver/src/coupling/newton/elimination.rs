@@ -310,7 +310,11 @@ mod tests {
         let mut influence = DenseMatrix::zeros(k_total, k_total);
         for i in 0..k_total {
             for j in 0..k_total {
-                influence.set(i, j, 0.3 / (1.0 + (i as f64 - j as f64).abs()) + 0.1 * j as f64);
+                influence.set(
+                    i,
+                    j,
+                    0.3 / (1.0 + (i as f64 - j as f64).abs()) + 0.1 * j as f64,
+                );
             }
         }
         let pseudo = |a: usize, b: usize| ((a * 7 + b * 13) % 17) as f64 / 17.0 - 0.4;
@@ -320,7 +324,13 @@ mod tests {
                 involved: [k, k.saturating_sub(1), 0],
                 count: if k == 0 { 1 } else { 2 },
                 n_local: if k == 2 { 4 } else { 2 },
-                residual: [pseudo(k, 1), pseudo(k, 2), pseudo(k, 3), pseudo(k, 4), pseudo(k, 6)],
+                residual: [
+                    pseudo(k, 1),
+                    pseudo(k, 2),
+                    pseudo(k, 3),
+                    pseudo(k, 4),
+                    pseudo(k, 6),
+                ],
                 ..Default::default()
             };
             for p in 0..lin.count {

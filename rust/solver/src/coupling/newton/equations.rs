@@ -112,7 +112,9 @@ impl CoupledProblem<'_> {
                 let merged = merged_wake_start(&upper, &lower);
                 let ds = layout.s[k] - self.wake_origin;
                 let w = w.max(upwinded_weight(merged.shape_factor, b.state.shape_factor));
-                put(&turbulent_interval_residual(ctx, &merged, &b.state, ds, w, true));
+                put(&turbulent_interval_residual(
+                    ctx, &merged, &b.state, ds, w, true,
+                ));
             }
             Role::Interval => {
                 let a = station_state(&vars[1], regime(1));
@@ -124,8 +126,8 @@ impl CoupledProblem<'_> {
                     }
                     (Regime::Laminar, _) => {
                         let trip = layout.trips[layout.side_of(k).min(1)];
-                        let previous = (involved[2] + 2 == k && regime(2) == Regime::Laminar)
-                            .then(|| {
+                        let previous =
+                            (involved[2] + 2 == k && regime(2) == Regime::Laminar).then(|| {
                                 let st = station_state(&vars[2], regime(2)).state;
                                 (st.shape_factor, layout.s[k - 2])
                             });
@@ -190,7 +192,11 @@ impl CoupledProblem<'_> {
         for p in 0..count {
             let laminar = unknowns.regime[involved[p]] == Regime::Laminar;
             // Variables: ln θ, third, m, ue, then (own station only) the transition unknowns.
-            let n_vars = if p == 0 { 4 + (n_local - SHARED_LOCAL) } else { 4 };
+            let n_vars = if p == 0 {
+                4 + (n_local - SHARED_LOCAL)
+            } else {
+                4
+            };
             for v in 0..n_vars {
                 let x = vars[p].get(v);
                 let typical = match v {

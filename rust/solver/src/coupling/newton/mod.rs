@@ -127,10 +127,6 @@ pub(crate) struct CoupledProblem<'a> {
     wake_origin: f64,
 }
 
-fn tracing() -> bool {
-    std::env::var_os("WAKERANK_TRACE").is_some()
-}
-
 impl<'a> CoupledProblem<'a> {
     pub(crate) fn new(case: &'a CaseModel, settings: &'a ViscousSettings) -> Self {
         CoupledProblem {
@@ -186,20 +182,24 @@ impl<'a> CoupledProblem<'a> {
                 Some(l) => l.iter().map(|s| s.residual).collect(),
                 None => self.residuals(&layout, &unknowns, &ue),
             };
-            let row_counts: Vec<usize> =
-                (0..layout.len()).map(|k| self.local_count(&unknowns, k) + 1).collect();
+            let row_counts: Vec<usize> = (0..layout.len())
+                .map(|k| self.local_count(&unknowns, k) + 1)
+                .collect();
             residual = (0..layout.len())
                 .flat_map(|k| residuals[k][..row_counts[k]].iter())
-                .fold(0.0_f64, |m, v| if v.is_finite() { m.max(v.abs()) } else { f64::NAN });
+                .fold(0.0_f64, |m, v| {
+                    if v.is_finite() {
+                        m.max(v.abs())
+                    } else {
+                        f64::NAN
+                    }
+                });
             if !residual.is_finite() {
                 residual = f64::NAN;
                 break;
             }
             let settled = residual < REGIME_MOVE_RESIDUAL;
             let moved = self.update_regimes(&layout, &mut unknowns, &ue, settled);
-            if tracing() {
-                self.trace(iteration, residual, moved, &layout, &unknowns, &residuals);
-            }
             if !moved && residual < NEWTON_TOLERANCE {
                 converged = true;
                 break;
@@ -260,50 +260,6 @@ impl<'a> CoupledProblem<'a> {
             output::coupled_solution(self, &layout, &unknowns, converged, iterations, residual);
         solution.newton_state = Some(output::newton_state(&layout, &unknowns, case));
         Ok(solution)
-    }
-
-    /// Development trace (WAKERANK_TRACE set): residual, worst station, transition stations.
-    fn trace(
-        &self,
-        iteration: usize,
-        residual: f64,
-        moved: bool,
-        layout: &Layout,
-        unknowns: &Unknowns,
-        residuals: &[[f64; MAX_EQUATIONS]],
-    ) {
-        let worst = residuals
-            .iter()
-            .enumerate()
-            .max_by(|a, b| norm_squared(a.1).total_cmp(&norm_squared(b.1)))
-            .map(|(k, r)| (k, *r));
-        let first_turbulent = |range: std::ops::Range<usize>| {
-            range.clone().find(|&k| unknowns.regime[k] != Regime::Laminar).map(|k| (k, unknowns.transition[k].map(|t| t[1])))
-        };
-        if let Ok(range) = std::env::var("WAKERANK_TRACE_STATIONS") {
-            let ue = layout.edge_speeds(&unknowns.m);
-            let (a, b) = range.split_once('-').unwrap_or(("0", "5"));
-            let (a, b): (usize, usize) = (a.parse().unwrap_or(0), b.parse().unwrap_or(5));
-            for k in a..=b.min(layout.len() - 1) {
-                let st = self.layer_state(unknowns, &ue, k);
-                eprintln!("   k {k} {:?} {:?} s {:.6e} ue {:.5} th {:.4e} H {:.4} c {:.4} R {:?}", layout.role[k], unknowns.regime[k], layout.s[k], ue[k], st.theta, st.shape_factor, unknowns.third[k], &residuals[k]);
-            }
-        }
-        if std::env::var_os("WAKERANK_TRACE_TRANSITION").is_some() {
-            let ue = layout.edge_speeds(&unknowns.m);
-            for k in 0..layout.len() {
-                if let Some([lt, f]) = unknowns.transition[k] {
-                    let a = self.layer_state(unknowns, &ue, k - 1);
-                    let b = self.layer_state(unknowns, &ue, k);
-                    eprintln!("   transition k {k}: a th {:.4e} H {:.3} N {:.3} ue {:.4} | t th {:.4e} f {f:.3} | b th {:.4e} H {:.3} ce {:.4} ue {:.4} | R {:?}", a.theta, a.shape_factor, unknowns.third[k-1], a.edge_velocity, lt.exp(), b.theta, b.shape_factor, b.entrainment, b.edge_velocity, residuals[k]);
-                }
-            }
-        }
-        eprintln!(
-            "newton it {iteration} residual {residual:.3e} moved {moved} worst {worst:?} transition {:?} {:?}",
-            first_turbulent(layout.upper.clone()),
-            first_turbulent(layout.lower.clone()),
-        );
     }
 
     /// Layout at the stagnation point of the speeds induced by the node mass defects `m_full`.

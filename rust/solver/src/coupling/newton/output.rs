@@ -6,8 +6,8 @@ use crate::boundary_layer::march::{make_station, SeparationTracker};
 use crate::boundary_layer::{MarchSettings, Regime, SideSolution, Station};
 
 use super::super::iteration::CoupledSolution;
-use super::layout::Layout;
 use super::super::model::CaseModel;
+use super::layout::Layout;
 use super::{CoupledProblem, NewtonState, Unknowns};
 
 /// The iterate as a warm start for a neighbouring angle.
@@ -112,8 +112,7 @@ pub(super) fn coupled_solution(
 ) -> CoupledSolution {
     let case = problem.case;
     let ue = layout.edge_speeds(&unknowns.m);
-    let side =
-        |range, trip| side_solution(problem, layout, unknowns, &ue, range, trip, converged);
+    let side = |range, trip| side_solution(problem, layout, unknowns, &ue, range, trip, converged);
     let upper = side(layout.upper.clone(), layout.trips[0]);
     let lower = side(layout.lower.clone(), layout.trips[1]);
     let settings = MarchSettings::new(problem.ctx.reynolds);
@@ -157,9 +156,15 @@ pub(super) fn coupled_solution(
     };
     let finite = [&upper, &lower, &wake].iter().all(|s| {
         s.stations.iter().all(|st| {
-            [st.theta, st.delta_star, st.edge_velocity, st.cf, st.shape_factor]
-                .iter()
-                .all(|v| v.is_finite())
+            [
+                st.theta,
+                st.delta_star,
+                st.edge_velocity,
+                st.cf,
+                st.shape_factor,
+            ]
+            .iter()
+            .all(|v| v.is_finite())
         })
     });
     CoupledSolution {

@@ -29,7 +29,13 @@ impl CoupledProblem<'_> {
     }
 
     /// Makes station k turbulent with the turbulent start of the laminar state `laminar`.
-    fn make_turbulent_from(&self, unknowns: &mut Unknowns, ue: &[f64], k: usize, laminar: &LayerState) {
+    fn make_turbulent_from(
+        &self,
+        unknowns: &mut Unknowns,
+        ue: &[f64],
+        k: usize,
+        laminar: &LayerState,
+    ) {
         let start = turbulent_start(laminar, self.ctx.reynolds);
         unknowns.regime[k] = Regime::Turbulent;
         unknowns.third[k] = start.entrainment;
@@ -122,7 +128,11 @@ impl CoupledProblem<'_> {
             };
             let [ln_theta, f] = point;
             // From an unsettled iterate only when the point is well outside its interval.
-            let slack = if settled { 0.0 } else { UNSETTLED_FRACTION_SLACK };
+            let slack = if settled {
+                0.0
+            } else {
+                UNSETTLED_FRACTION_SLACK
+            };
             if f < -slack && t - 1 > range.start {
                 let h_t = self.transition_shape(layout, unknowns, ue, t, f);
                 // One interval upstream: the station before becomes the transition station.
@@ -164,7 +174,8 @@ impl CoupledProblem<'_> {
                     false,
                     &mut StepMemory::default(),
                 );
-                let laminar = if ok && stepped.theta.is_finite() && stepped.shape_factor.is_finite() {
+                let laminar = if ok && stepped.theta.is_finite() && stepped.shape_factor.is_finite()
+                {
                     stepped
                 } else {
                     estimate
@@ -201,7 +212,12 @@ impl CoupledProblem<'_> {
         let previous = (t >= 2
             && layout.side_of(t - 2) == layout.side_of(t)
             && unknowns.regime[t - 2] == Regime::Laminar)
-            .then(|| (self.layer_state(unknowns, ue, t - 2).shape_factor, layout.s[t - 2]));
+            .then(|| {
+                (
+                    self.layer_state(unknowns, ue, t - 2).shape_factor,
+                    layout.s[t - 2],
+                )
+            });
         transition_shape_factor(previous, a.shape_factor, layout.s[t - 1], layout.s[t], f)
     }
 
@@ -224,7 +240,10 @@ impl CoupledProblem<'_> {
             // Trip ahead of the first station: turbulent from the start.
             self.make_turbulent(unknowns, ue, j);
         } else {
-            let (a, b) = (self.station(unknowns, ue, j - 1), self.station(unknowns, ue, j));
+            let (a, b) = (
+                self.station(unknowns, ue, j - 1),
+                self.station(unknowns, ue, j),
+            );
             let (sa, sb) = (layout.s[j - 1], layout.s[j]);
             let f = match trip.filter(|&ts| ts > sa && ts <= sb) {
                 Some(ts) => (ts - sa) / (sb - sa),

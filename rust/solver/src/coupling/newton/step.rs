@@ -39,14 +39,9 @@ impl CoupledProblem<'_> {
     ) {
         let due = layout.influence.matvec(&step.mass);
         let mut omega: f64 = scale;
-        let trace = super::tracing();
-        let mut current = 0usize;
-        let mut which = 0usize;
-        let mut limit = |change: f64, allowed: f64, k: usize, w: usize| {
+        let mut limit = |change: f64, allowed: f64| {
             if change.abs() * omega > allowed {
                 omega = allowed / change.abs();
-                current = k;
-                which = w;
             }
         };
         for k in 0..layout.len() {
@@ -54,29 +49,28 @@ impl CoupledProblem<'_> {
             let dm = step.mass[k];
             let m = unknowns.m[k].max(1e-12);
             let u = ue[k].max(1e-6);
-            limit(dl, MAX_LOG_THETA_STEP, k, 0);
+            limit(dl, MAX_LOG_THETA_STEP);
             // Near a stagnation point m and ue are small and move with the point itself;
             // relative limits there would stall every step, so they clip those stations'
             // own corrections instead (below).
             if ue[k] > NEAR_STAGNATION_SPEED {
-                limit(dm / m, MAX_RELATIVE_STEP, k, 1);
-                limit(dm / m - due[k] / u - dl, MAX_RELATIVE_STEP, k, 2);
+                limit(dm / m, MAX_RELATIVE_STEP);
+                limit(dm / m - due[k] / u - dl, MAX_RELATIVE_STEP);
             }
             if ue[k] + due[k] <= 0.0 {
-                limit(due[k] / u, 0.5, k, 3);
+                limit(due[k] / u, 0.5);
             }
             if unknowns.regime[k] != Regime::Laminar {
-                limit(dc, (MAX_RELATIVE_STEP * unknowns.third[k].abs()).max(MAX_ENTRAINMENT_STEP), k, 4);
+                limit(
+                    dc,
+                    (MAX_RELATIVE_STEP * unknowns.third[k].abs()).max(MAX_ENTRAINMENT_STEP),
+                );
             }
             if unknowns.transition[k].is_some() {
                 let [_, _, dlt, df] = step.local[k];
-                limit(dlt, MAX_LOG_THETA_STEP, k, 5);
-                limit(df, MAX_FRACTION_STEP, k, 6);
+                limit(dlt, MAX_LOG_THETA_STEP);
+                limit(df, MAX_FRACTION_STEP);
             }
-        }
-        let binding = (current, which);
-        if trace {
-            eprintln!("  omega {omega:.3} limited by {binding:?}");
         }
         for k in 0..layout.len() {
             let [dl, dc, dlt, df] = step.local[k];
@@ -99,7 +93,8 @@ impl CoupledProblem<'_> {
             }
             unknowns.m[k] = (unknowns.m[k] + own * step.mass[k]).max(1e-12);
             if unknowns.regime[k] != Regime::Laminar {
-                unknowns.third[k] = unknowns.third[k].clamp(ENTRAINMENT_RANGE.0, ENTRAINMENT_RANGE.1);
+                unknowns.third[k] =
+                    unknowns.third[k].clamp(ENTRAINMENT_RANGE.0, ENTRAINMENT_RANGE.1);
             }
         }
         let ue_new = layout.edge_speeds(&unknowns.m);
