@@ -80,3 +80,59 @@ fn batch_is_deterministic_and_converged_rows_are_finite() {
         assert!(!r.row.converged || r.row.is_finite(), "{r:?}");
     }
 }
+
+#[test]
+fn coupled_newton_converges_tightly_and_symmetrically() {
+    // Common practice for a coupled solver: attached cases converge to a small equation
+    // residual, and a symmetric section gives cl(−α) = −cl(α), cd(−α) = cd(α) to within the
+    // iteration tolerance.
+    let section = naca::from_designation("0012", false, 200).unwrap();
+    let settings = ViscousSettings::new(6e6);
+    let alphas = [-4.0, -2.0, 0.0, 2.0, 4.0];
+    let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
+    for row in &rows {
+        assert!(row.converged, "alpha {} did not converge", row.alpha_deg);
+        assert!(
+            row.residual < 1e-6,
+            "alpha {}: residual {}",
+            row.alpha_deg,
+            row.residual
+        );
+        assert!(
+            row.iterations <= 40,
+            "alpha {}: {} iterations",
+            row.alpha_deg,
+            row.iterations
+        );
+    }
+    for (low, high) in [(0, 4), (1, 3)] {
+        assert!((rows[low].cl + rows[high].cl).abs() < 1e-5);
+        assert!((rows[low].cd - rows[high].cd).abs() < 1e-6 * rows[high].cd.max(1.0));
+    }
+    assert!(rows[2].cl.abs() < 1e-6);
+}
+
+#[test]
+#[ignore = "known miss, docs/validation.md: at alpha 2.5 deg a second converged solution with \
+            lower-surface transition two intervals upstream is reached from the 2.0 deg warm start"]
+fn transition_moves_smoothly_with_incidence() {
+    // Common practice: on a symmetric section at positive incidence, upper-surface free
+    // transition moves forward and the drag rises monotonically with the angle of attack
+    // (the transition point is located inside its interval, not snapped to a node).
+    let section = naca::from_designation("0012", false, 200).unwrap();
+    let settings = ViscousSettings::new(6e6);
+    let alphas: Vec<f64> = (0..=8).map(|k| 0.5 * k as f64).collect();
+    let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
+    assert!(rows.iter().all(|r| r.converged));
+    for pair in rows.windows(2) {
+        assert!(pair[1].transition_upper < pair[0].transition_upper);
+        assert!(
+            pair[1].cd > pair[0].cd,
+            "cd falls from {} to {} between {} and {} deg",
+            pair[0].cd,
+            pair[1].cd,
+            pair[0].alpha_deg,
+            pair[1].alpha_deg
+        );
+    }
+}
