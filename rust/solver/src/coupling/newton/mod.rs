@@ -205,7 +205,9 @@ impl<'a> CoupledProblem<'a> {
                 break;
             }
             if moved {
+                // The moved regimes change the displacement, and with it the stagnation point.
                 frozen = None;
+                layout = self.resplit(&layout, &mut unknowns)?;
                 continue;
             }
             let chord = frozen.is_some();
@@ -244,22 +246,30 @@ impl<'a> CoupledProblem<'a> {
             if scale < 1.0 || accepted_norm > CHORD_REDUCTION * CHORD_REDUCTION * base_norm {
                 frozen = None;
             }
-            // Re-locate the stagnation point; a change of split re-maps the stations.
-            let m_full = layout.node_mass_defect(case, &unknowns.m);
-            let new_layout = self.layout_for(&m_full, layout.split.stagnation.node)?;
-            if new_layout.split.upper.nodes != layout.split.upper.nodes
-                || new_layout.split.lower.nodes != layout.split.lower.nodes
-            {
-                let state = output::newton_state(&layout, &unknowns, case);
-                unknowns = self.map_state(&new_layout, &state);
+            let previous_nodes = layout.nodes.clone();
+            layout = self.resplit(&layout, &mut unknowns)?;
+            if previous_nodes != layout.nodes {
                 frozen = None;
             }
-            layout = new_layout;
         }
         let mut solution =
             output::coupled_solution(self, &layout, &unknowns, converged, iterations, residual);
         solution.newton_state = Some(output::newton_state(&layout, &unknowns, case));
         Ok(solution)
+    }
+
+    /// Re-locates the stagnation point for the current mass defects; a change of split re-maps
+    /// the stations onto the new one.
+    fn resplit(&self, layout: &Layout, unknowns: &mut Unknowns) -> Result<Layout> {
+        let m_full = layout.node_mass_defect(self.case, &unknowns.m);
+        let new_layout = self.layout_for(&m_full, layout.split.stagnation.node)?;
+        if new_layout.split.upper.nodes != layout.split.upper.nodes
+            || new_layout.split.lower.nodes != layout.split.lower.nodes
+        {
+            let state = output::newton_state(layout, unknowns, self.case);
+            *unknowns = self.map_state(&new_layout, &state);
+        }
+        Ok(new_layout)
     }
 
     /// Layout at the stagnation point of the speeds induced by the node mass defects `m_full`.
