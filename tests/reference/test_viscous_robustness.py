@@ -32,7 +32,7 @@ def _assert_converged_rows_finite(frame: pl.DataFrame) -> None:
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 56 % of the 228 points converge (most failures at "
+    reason="known miss, docs/validation.md: 68 % of the 228 points converge (most failures at "
     "Re 2e5 and above about 5 deg); converged rows are finite (checked below)",
     strict=False,
 )
@@ -60,7 +60,7 @@ def test_family_sweep_converged_rows_are_finite():
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 1-7 of the 11 angles converge at each Reynolds number",
+    reason="known miss, docs/validation.md: 1-6 of the 11 angles converge at each Reynolds number",
     strict=False,
 )
 @pytest.mark.parametrize("reynolds", [1e5, 2e5, 3e5, 5e5])
