@@ -5,11 +5,24 @@ use crate::boundary_layer::intervals::{
     laminar_interval_residual, merged_wake_start, start_residual, transition_station_residual,
     turbulent_interval_residual, upwinded_weight,
 };
-use crate::boundary_layer::Regime;
+use crate::boundary_layer::lag_entrainment::turbulent_start;
+use crate::boundary_layer::{LayerState, Regime};
 
 use super::elimination::{StationLinearisation, MAX_EQUATIONS, SHARED_LOCAL};
 use super::layout::{Layout, Role};
 use super::{norm_squared, station_state, CoupledProblem, NodeVars, Unknowns};
+
+/// A side's trailing-edge state as it enters the wake: a layer still laminar there becomes
+/// turbulent at the trailing edge (the wake equations are turbulent), with the turbulent start
+/// of any transition; so the wake's start is continuous when transition moves off the trailing
+/// edge (a transition point at the very end of the last interval gives the same state).
+pub(super) fn wake_side_state(reynolds: f64, state: &LayerState, regime: Regime) -> LayerState {
+    if regime == Regime::Laminar {
+        turbulent_start(state, reynolds)
+    } else {
+        *state
+    }
+}
 
 /// Relative size of the forward-difference steps (about the square root of the rounding
 /// error of the residuals, common practice).
@@ -107,8 +120,16 @@ impl CoupledProblem<'_> {
                 ));
             }
             Role::WakeFirst => {
-                let upper = station_state(&vars[1], regime(1)).state;
-                let lower = station_state(&vars[2], regime(2)).state;
+                let upper = wake_side_state(
+                    ctx.reynolds,
+                    &station_state(&vars[1], regime(1)).state,
+                    regime(1),
+                );
+                let lower = wake_side_state(
+                    ctx.reynolds,
+                    &station_state(&vars[2], regime(2)).state,
+                    regime(2),
+                );
                 let merged = merged_wake_start(&upper, &lower);
                 let ds = layout.s[k] - self.wake_origin;
                 let w = w.max(upwinded_weight(merged.shape_factor, b.state.shape_factor));

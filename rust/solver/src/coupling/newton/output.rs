@@ -7,6 +7,7 @@ use crate::boundary_layer::{MarchSettings, Regime, SideSolution, Station};
 
 use super::super::iteration::CoupledSolution;
 use super::super::model::CaseModel;
+use super::equations::wake_side_state;
 use super::layout::Layout;
 use super::{CoupledProblem, NewtonState, Unknowns};
 
@@ -117,9 +118,18 @@ pub(super) fn coupled_solution(
     let lower = side(layout.lower.clone(), layout.trips[1]);
     let settings = MarchSettings::new(problem.ctx.reynolds);
     let [tu, tl] = layout.trailing_edges();
+    let reynolds = problem.ctx.reynolds;
     let merged = merged_wake_start(
-        &problem.layer_state(unknowns, &ue, tu),
-        &problem.layer_state(unknowns, &ue, tl),
+        &wake_side_state(
+            reynolds,
+            &problem.layer_state(unknowns, &ue, tu),
+            unknowns.regime[tu],
+        ),
+        &wake_side_state(
+            reynolds,
+            &problem.layer_state(unknowns, &ue, tl),
+            unknowns.regime[tl],
+        ),
     );
     let amplification = upper
         .stations
