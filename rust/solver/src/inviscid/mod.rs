@@ -62,6 +62,9 @@ pub struct PanelSolver {
     chord: f64,
     /// Quarter-chord reference point for the moment.
     quarter_chord: (f64, f64),
+    /// Response of the sheet unknowns to each surface node's mass defect (the surface columns
+    /// of the mass-defect influence, which do not depend on the wake), built on first use.
+    pub(crate) surface_mass_response: std::sync::OnceLock<crate::linalg::DenseMatrix>,
 }
 
 /// Result of one inviscid solve at one angle of attack.
@@ -147,6 +150,7 @@ impl PanelSolver {
             arc,
             chord,
             quarter_chord,
+            surface_mass_response: std::sync::OnceLock::new(),
         })
     }
 

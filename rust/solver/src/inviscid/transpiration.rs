@@ -347,11 +347,11 @@ impl PanelSolver {
             }
         };
         // Unknowns: d(sheet, Q)/dm = −A⁻¹·(B·S), one LU solve per column.
+        // The surface columns do not depend on the wake (a surface source's normal velocity on
+        // the surface is fixed by the body alone): solved once per section and kept.
         let unknowns = n + 1;
-        let mut d_gamma = DenseMatrix::zeros(unknowns, total);
-        let mut rhs = vec![0.0; unknowns];
-        for j in 0..total {
-            rhs.iter_mut().for_each(|r| *r = 0.0);
+        let response = |j: usize| {
+            let mut rhs = vec![0.0; unknowns];
             for (k, w) in column(j) {
                 if w != 0.0 {
                     for i in 0..unknowns {
@@ -360,8 +360,26 @@ impl PanelSolver {
                 }
             }
             self.lu.solve_in_place(&mut rhs);
-            for i in 0..unknowns {
-                d_gamma.set(i, j, rhs[i]);
+            rhs
+        };
+        let surface = self.surface_mass_response.get_or_init(|| {
+            let mut columns = DenseMatrix::zeros(n, unknowns);
+            for j in 0..n {
+                columns.row_mut(j).copy_from_slice(&response(j));
+            }
+            columns
+        });
+        let mut d_gamma = DenseMatrix::zeros(unknowns, total);
+        for j in 0..total {
+            let own;
+            let values = if j < n {
+                surface.row(j)
+            } else {
+                own = response(j);
+                &own[..]
+            };
+            for (i, &v) in values.iter().enumerate() {
+                d_gamma.set(i, j, v);
             }
         }
         // Wake rows at the midpoints: vortex part through d(sheet)/dm plus the direct source part.
