@@ -49,7 +49,7 @@ const LINE_SEARCH_HALVINGS: usize = 4;
 /// 2-norm at least by this factor; otherwise the Jacobian is refreshed.
 const CHORD_REDUCTION: f64 = 0.25;
 /// Cap on the Newton iterations of one case.
-const MAX_NEWTON_ITERATIONS: usize = 40;
+const MAX_NEWTON_ITERATIONS: usize = 60;
 /// Largest shape factor the residuals are evaluated at (keeps a wild first iterate, with an
 /// edge speed near zero at the trailing edge, finite).
 const MAX_EVALUATED_SHAPE_FACTOR: f64 = 40.0;
