@@ -269,6 +269,25 @@ pub(crate) struct SeparationTracker {
 }
 
 impl SeparationTracker {
+    /// The side's solution: its stations, transition and the events observed along them.
+    pub(crate) fn finish(
+        self,
+        stations: Vec<Station>,
+        transition_s: Option<f64>,
+        transition_forced: bool,
+        converged: bool,
+    ) -> SideSolution {
+        SideSolution {
+            stations,
+            transition_s,
+            transition_forced,
+            laminar_separation_s: self.laminar_separation,
+            turbulent_separation_s: self.turbulent_separation,
+            reattachment_s: self.reattachment,
+            converged,
+        }
+    }
+
     pub(crate) fn observe(&mut self, a: &Station, b: &Station) {
         if a.cf > 0.0 && b.cf <= 0.0 {
             let s = zero_crossing(a.s, a.cf, b.s, b.cf);
@@ -469,13 +488,5 @@ pub fn march_surface(
         stations.push(station);
     }
 
-    SideSolution {
-        stations,
-        transition_s,
-        transition_forced,
-        laminar_separation_s: tracker.laminar_separation,
-        turbulent_separation_s: tracker.turbulent_separation,
-        reattachment_s: tracker.reattachment,
-        converged: all_converged,
-    }
+    tracker.finish(stations, transition_s, transition_forced, all_converged)
 }

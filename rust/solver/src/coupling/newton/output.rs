@@ -91,15 +91,7 @@ fn side_solution(
         }
         stations.push(station);
     }
-    SideSolution {
-        stations,
-        transition_s,
-        transition_forced,
-        laminar_separation_s: tracker.laminar_separation,
-        turbulent_separation_s: tracker.turbulent_separation,
-        reattachment_s: tracker.reattachment,
-        converged,
-    }
+    tracker.finish(stations, transition_s, transition_forced, converged)
 }
 
 /// The coupled solution of the iterate.
