@@ -6,6 +6,9 @@ import numpy as np
 import numpy.typing as npt
 
 _Array = npt.NDArray[np.float64]
+# Viscous conditions: reynolds (required), mach, n_factor, turbulence_intensity, trip_upper,
+# trip_lower, panels (as wakerank.viscous.condition_keywords writes them).
+_Conditions = dict[str, float | int | None]
 _CoreSection = tuple[str, _Array, _Array]
 
 DEFAULT_PANELS: int
@@ -55,46 +58,25 @@ def viscous_sweep(
     x: _Array,
     y: _Array,
     alpha_deg: _Array,
-    *,
-    reynolds: float,
-    mach: float = 0.0,
-    n_factor: float = 9.0,
-    turbulence_intensity: float | None = None,
-    trip_upper: float | None = None,
-    trip_lower: float | None = None,
-    panels: int = 160,
+    conditions: _Conditions,
 ) -> dict[str, _Array]: ...
 def viscous_solve_for_cl(
     name: str,
     x: _Array,
     y: _Array,
     cl: float,
-    *,
-    reynolds: float,
-    mach: float = 0.0,
-    n_factor: float = 9.0,
-    turbulence_intensity: float | None = None,
-    trip_upper: float | None = None,
-    trip_lower: float | None = None,
-    panels: int = 160,
+    conditions: _Conditions,
 ) -> dict[str, _Array]: ...
 def viscous_boundary_layer(
     name: str,
     x: _Array,
     y: _Array,
     alpha_deg: float,
-    *,
-    reynolds: float,
-    mach: float = 0.0,
-    n_factor: float = 9.0,
-    turbulence_intensity: float | None = None,
-    trip_upper: float | None = None,
-    trip_lower: float | None = None,
-    panels: int = 160,
+    conditions: _Conditions,
 ) -> dict[str, _Array | bool]: ...
 def viscous_batch(
     sections: list[tuple[str, _Array, _Array]],
-    conditions: list[dict[str, float | int | None]],
+    conditions: list[_Conditions],
     alpha_deg: _Array,
     threads: int = 0,
 ) -> dict[str, _Array]: ...

@@ -143,7 +143,7 @@ def viscous_polar(
     starts). Called by :func:`wakerank.analyze` with a Reynolds number."""
     cond = condition_keywords(reynolds, mach, panels, **options)
     angles = np.ascontiguousarray(alphas, dtype=np.float64)
-    columns = _core.viscous_sweep(name, x, y, angles, **cond)
+    columns = _core.viscous_sweep(name, x, y, angles, cond)
     return polar_frame(columns, cond)
 
 
@@ -196,7 +196,7 @@ def solve_for_cl(
     name, x, y, cond = _section_and_conditions(
         section, reynolds, mach, panels, n_factor, turbulence_intensity, trip_upper, trip_lower
     )
-    columns = _core.viscous_solve_for_cl(name, x, y, target, **cond)
+    columns = _core.viscous_solve_for_cl(name, x, y, target, cond)
     return polar_frame(columns, cond)
 
 
@@ -228,7 +228,7 @@ def boundary_layer(
     name, x, y, cond = _section_and_conditions(
         section, reynolds, mach, panels, n_factor, turbulence_intensity, trip_upper, trip_lower
     )
-    columns = _core.viscous_boundary_layer(name, x, y, float(alphas[0]), **cond)
+    columns = _core.viscous_boundary_layer(name, x, y, float(alphas[0]), cond)
     side = np.asarray(columns["side"]).astype(np.int64)
     regime = np.asarray(columns["regime"]).astype(np.int64)
     data: dict[str, Any] = {"side": pl.Series("side", [_SIDES[k] for k in side], dtype=pl.Utf8)}

@@ -37,25 +37,18 @@ fn section(
     })
 }
 
-#[allow(clippy::too_many_arguments)]
-fn settings(
-    reynolds: f64,
-    mach: f64,
-    n_factor: f64,
-    turbulence_intensity: Option<f64>,
-    trip_upper: Option<f64>,
-    trip_lower: Option<f64>,
-    panels: usize,
-) -> ViscousSettings {
-    ViscousSettings {
-        mach,
-        n_critical: n_factor,
-        turbulence_intensity,
-        trip_upper,
-        trip_lower,
-        panels,
-        ..ViscousSettings::new(reynolds)
-    }
+/// Viscous settings from a conditions dict (keys as `wakerank.viscous.condition_keywords`
+/// writes them; missing ones take the core's defaults).
+fn settings_from(d: &Bound<'_, PyDict>) -> PyResult<ViscousSettings> {
+    Ok(ViscousSettings {
+        mach: get_item::<f64>(d, "mach", Some(0.0))?,
+        n_critical: get_item::<f64>(d, "n_factor", Some(9.0))?,
+        turbulence_intensity: get_optional(d, "turbulence_intensity")?,
+        trip_upper: get_optional(d, "trip_upper")?,
+        trip_lower: get_optional(d, "trip_lower")?,
+        panels: get_item::<usize>(d, "panels", Some(160))?,
+        ..ViscousSettings::new(get_item::<f64>(d, "reynolds", None)?)
+    })
 }
 
 fn column<'py>(
@@ -106,34 +99,18 @@ fn rows_to_dict<'py>(py: Python<'py>, rows: &[ViscousRow]) -> PyResult<Bound<'py
 
 /// Viscous polar of one section over an α sweep (warm-started, outward from 0°).
 #[pyfunction]
-#[pyo3(signature = (name, x, y, alpha_deg, *, reynolds, mach=0.0, n_factor=9.0,
-    turbulence_intensity=None, trip_upper=None, trip_lower=None, panels=160))]
-#[allow(clippy::too_many_arguments)]
+#[pyo3(signature = (name, x, y, alpha_deg, conditions))]
 pub fn viscous_sweep<'py>(
     py: Python<'py>,
     name: String,
     x: PyReadonlyArray1<'py, f64>,
     y: PyReadonlyArray1<'py, f64>,
     alpha_deg: PyReadonlyArray1<'py, f64>,
-    reynolds: f64,
-    mach: f64,
-    n_factor: f64,
-    turbulence_intensity: Option<f64>,
-    trip_upper: Option<f64>,
-    trip_lower: Option<f64>,
-    panels: usize,
+    conditions: &Bound<'py, PyDict>,
 ) -> PyResult<Bound<'py, PyDict>> {
     let section = section(name, &x, &y)?;
     let alphas = alpha_deg.as_array().to_vec();
-    let settings = settings(
-        reynolds,
-        mach,
-        n_factor,
-        turbulence_intensity,
-        trip_upper,
-        trip_lower,
-        panels,
-    );
+    let settings = settings_from(conditions)?;
     let rows = py
         .detach(move || guarded(|| coupling::analyze_viscous(&section, &alphas, &settings)))
         .map_err(|e| to_pyerr(py, e))?;
@@ -142,33 +119,17 @@ pub fn viscous_sweep<'py>(
 
 /// The viscous polar row at a target lift coefficient.
 #[pyfunction]
-#[pyo3(signature = (name, x, y, cl, *, reynolds, mach=0.0, n_factor=9.0,
-    turbulence_intensity=None, trip_upper=None, trip_lower=None, panels=160))]
-#[allow(clippy::too_many_arguments)]
+#[pyo3(signature = (name, x, y, cl, conditions))]
 pub fn viscous_solve_for_cl<'py>(
     py: Python<'py>,
     name: String,
     x: PyReadonlyArray1<'py, f64>,
     y: PyReadonlyArray1<'py, f64>,
     cl: f64,
-    reynolds: f64,
-    mach: f64,
-    n_factor: f64,
-    turbulence_intensity: Option<f64>,
-    trip_upper: Option<f64>,
-    trip_lower: Option<f64>,
-    panels: usize,
+    conditions: &Bound<'py, PyDict>,
 ) -> PyResult<Bound<'py, PyDict>> {
     let section = section(name, &x, &y)?;
-    let settings = settings(
-        reynolds,
-        mach,
-        n_factor,
-        turbulence_intensity,
-        trip_upper,
-        trip_lower,
-        panels,
-    );
+    let settings = settings_from(conditions)?;
     let row = py
         .detach(move || guarded(|| coupling::solve_for_cl(&section, cl, &settings)))
         .map_err(|e| to_pyerr(py, e))?;
@@ -178,33 +139,17 @@ pub fn viscous_solve_for_cl<'py>(
 /// Boundary-layer and wake stations at one angle: columns, with side and regime as codes
 /// (side 0 upper, 1 lower, 2 wake; regime 0 laminar, 1 turbulent, 2 wake).
 #[pyfunction]
-#[pyo3(signature = (name, x, y, alpha_deg, *, reynolds, mach=0.0, n_factor=9.0,
-    turbulence_intensity=None, trip_upper=None, trip_lower=None, panels=160))]
-#[allow(clippy::too_many_arguments)]
+#[pyo3(signature = (name, x, y, alpha_deg, conditions))]
 pub fn viscous_boundary_layer<'py>(
     py: Python<'py>,
     name: String,
     x: PyReadonlyArray1<'py, f64>,
     y: PyReadonlyArray1<'py, f64>,
     alpha_deg: f64,
-    reynolds: f64,
-    mach: f64,
-    n_factor: f64,
-    turbulence_intensity: Option<f64>,
-    trip_upper: Option<f64>,
-    trip_lower: Option<f64>,
-    panels: usize,
+    conditions: &Bound<'py, PyDict>,
 ) -> PyResult<Bound<'py, PyDict>> {
     let section = section(name, &x, &y)?;
-    let settings = settings(
-        reynolds,
-        mach,
-        n_factor,
-        turbulence_intensity,
-        trip_upper,
-        trip_lower,
-        panels,
-    );
+    let settings = settings_from(conditions)?;
     let analysis = py
         .detach(move || {
             guarded(|| coupling::boundary_layer_stations(&section, alpha_deg, &settings))
@@ -309,16 +254,7 @@ pub fn viscous_batch<'py>(
     }
     let mut owned_conditions = Vec::with_capacity(conditions.len());
     for item in conditions.iter() {
-        let d = item.cast_into::<PyDict>()?;
-        owned_conditions.push(settings(
-            get_item::<f64>(&d, "reynolds", None)?,
-            get_item::<f64>(&d, "mach", Some(0.0))?,
-            get_item::<f64>(&d, "n_factor", Some(9.0))?,
-            get_optional(&d, "turbulence_intensity")?,
-            get_optional(&d, "trip_upper")?,
-            get_optional(&d, "trip_lower")?,
-            get_item::<usize>(&d, "panels", Some(160))?,
-        ));
+        owned_conditions.push(settings_from(&item.cast_into::<PyDict>()?)?);
     }
     let alphas = alpha_deg.as_array().to_vec();
     let rows = py

@@ -36,9 +36,19 @@ fn main() {
     for r in &rows {
         ok += r.converged as usize;
         println!(
-            "a {:6.2} cl {:8.5} cd {:9.6} sy {:9.6} f+p {:9.6} cm {:8.5} xtr {:6.4}/{:6.4} conv {} it {} res {:.1e}",
-            r.alpha_deg, r.cl, r.cd, r.cd_squire_young, r.cd_friction + r.cd_pressure, r.cm_c4,
-            r.transition_upper, r.transition_lower, r.converged, r.iterations, r.residual
+            "alpha {:6.2} cl {:8.5} cd {:9.6} squire_young {:9.6} friction+pressure {:9.6} \
+             cm_c4 {:8.5} transition {:6.4}/{:6.4} converged {} iterations {} residual {:.1e}",
+            r.alpha_deg,
+            r.cl,
+            r.cd,
+            r.cd_squire_young,
+            r.cd_friction + r.cd_pressure,
+            r.cm_c4,
+            r.transition_upper,
+            r.transition_lower,
+            r.converged,
+            r.iterations,
+            r.residual
         );
     }
     println!(
