@@ -181,6 +181,8 @@ pub(crate) fn sweep(
     let upward: Vec<usize> = order[start..].to_vec();
     let downward: Vec<usize> = order[..start].iter().rev().copied().collect();
     let mut start_defect: Option<(f64, WarmStart)> = None;
+    // The warm start of every converged angle, for the repair pass.
+    let mut warm_of: Vec<Option<WarmStart>> = vec![None; alpha_deg.len()];
     for (pass, indices) in [upward, downward].into_iter().enumerate() {
         // The last converged angle of this pass and its mass defect (the warm start).
         let mut warm: Option<(f64, WarmStart)> = if pass == 0 {
@@ -195,6 +197,7 @@ pub(crate) fn sweep(
                     let row = polar_row(&case, &solution, settings);
                     if solution.converged {
                         warm = Some((alpha, solution.warm_start()));
+                        warm_of[index] = Some(solution.warm_start());
                         if pass == 0 && k == 0 {
                             start_defect = warm.clone();
                         }
@@ -206,10 +209,111 @@ pub(crate) fn sweep(
             rows[index] = Some(row);
         }
     }
+    repair(model, alpha_deg, settings, &order, &mut rows, &mut warm_of);
     rows.into_iter()
         .zip(alpha_deg)
         .map(|(r, &a)| r.unwrap_or_else(|| ViscousRow::failed(a, 0, f64::NAN)))
         .collect()
+}
+
+/// Repair pass: an angle that failed is tried again from each converged neighbour (in α order)
+/// it has not yet been tried from — the Newton iteration from that neighbour's iterate, through
+/// intermediate angles when needed — until no attempt succeeds. A sweep whose starting angle
+/// failed otherwise solves everything on one side of it cold. The order is fixed, so the
+/// result does not depend on anything but the inputs.
+fn repair(
+    model: &SectionModel,
+    alpha_deg: &[f64],
+    settings: &ViscousSettings,
+    order: &[usize],
+    rows: &mut [Option<ViscousRow>],
+    warm_of: &mut [Option<WarmStart>],
+) {
+    let converged =
+        |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
+    let mut tried: std::collections::HashSet<(usize, usize)> = std::collections::HashSet::new();
+    loop {
+        let mut progress = false;
+        for pos in 0..order.len() {
+            let index = order[pos];
+            if converged(rows, index) {
+                continue;
+            }
+            let neighbours = [
+                pos.checked_sub(1),
+                Some(pos + 1).filter(|&p| p < order.len()),
+            ];
+            for nb in neighbours.into_iter().flatten().map(|p| order[p]) {
+                let Some(state) = warm_of[nb].clone() else {
+                    continue;
+                };
+                if !tried.insert((index, nb)) {
+                    continue;
+                }
+                let alpha = alpha_deg[index];
+                if let Some((case, solution)) =
+                    warm_newton_with_continuation(model, alpha, settings, (alpha_deg[nb], state))
+                {
+                    if solution.converged {
+                        rows[index] = Some(polar_row(&case, &solution, settings));
+                        warm_of[index] = Some(solution.warm_start());
+                        progress = true;
+                        break;
+                    }
+                }
+            }
+        }
+        if !progress {
+            break;
+        }
+    }
+}
+
+/// The Newton iteration at `alpha_deg` from the iterate `warm` = (angle, state) only; when it
+/// fails, through intermediate angles (the step halved, up to two levels), each from the last
+/// converged one.
+fn warm_newton_with_continuation(
+    model: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm: (f64, WarmStart),
+) -> Option<(CaseModel, CoupledSolution)> {
+    let attempt = |alpha: f64, start: &WarmStart| -> Option<(CaseModel, CoupledSolution)> {
+        let case = CaseModel::new(model, alpha, settings).ok()?;
+        let solution = CoupledProblem::new(&case, settings)
+            .solve(start.state.as_ref()?)
+            .ok()?;
+        Some((case, solution))
+    };
+    let first = attempt(alpha_deg, &warm.1);
+    if first.as_ref().is_some_and(|(_, s)| s.converged) {
+        return first;
+    }
+    let mut start = warm;
+    for level in 1..=CONTINUATION_LEVELS {
+        let step = (alpha_deg - start.0) / (1 << level) as f64;
+        if step.abs() < MIN_CONTINUATION_STEP_DEG {
+            break;
+        }
+        let mut reached = true;
+        for k in 1..(1 << level) {
+            let a = start.0 + step * k as f64;
+            match attempt(a, &start.1) {
+                Some((_, s)) if s.converged => start = (a, s.warm_start()),
+                _ => {
+                    reached = false;
+                    break;
+                }
+            }
+        }
+        if reached {
+            let again = attempt(alpha_deg, &start.1);
+            if again.as_ref().is_some_and(|(_, s)| s.converged) {
+                return again;
+            }
+        }
+    }
+    first
 }
 
 /// The polar row and stations of one angle. Angles away from 0° are approached through a
