@@ -32,7 +32,7 @@ def _assert_converged_rows_finite(frame: pl.DataFrame) -> None:
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 69 % of the 228 points converge (most failures at "
+    reason="known miss, docs/validation.md: 70 % of the 228 points converge (most failures at "
     "Re 2e5 and above about 5 deg); converged rows are finite (checked below)",
     strict=False,
 )
