@@ -114,13 +114,31 @@ pub(crate) fn solve_with_continuation(
     warm: Option<&(f64, WarmStart)>,
 ) -> Option<(CaseModel, CoupledSolution)> {
     let first = solve_angle(section, alpha_deg, settings, warm.map(|w| &w.1));
+    match warm {
+        Some(w) => continuation(alpha_deg, w.clone(), first, |a, start| {
+            solve_angle(section, a, settings, Some(start))
+        }),
+        None => first,
+    }
+}
+
+/// Result of one attempt at one angle.
+type Attempt = Option<(CaseModel, CoupledSolution)>;
+
+/// Continuation in α after the attempt `first` at `alpha_deg` from `warm` = (angle, start):
+/// when `first` did not converge, the step from the warm angle is halved (up to two levels)
+/// and the intermediate angles solved by `attempt`, each from the last converged one, then the
+/// target again. `first` is returned when that does not converge either.
+fn continuation(
+    alpha_deg: f64,
+    warm: (f64, WarmStart),
+    first: Attempt,
+    attempt: impl Fn(f64, &WarmStart) -> Attempt,
+) -> Attempt {
     if first.as_ref().is_some_and(|(_, s)| s.converged) {
         return first;
     }
-    let Some((from, defect)) = warm else {
-        return first;
-    };
-    let mut start = (*from, defect.clone());
+    let mut start = warm;
     for level in 1..=CONTINUATION_LEVELS {
         let step = (alpha_deg - start.0) / (1 << level) as f64;
         if step.abs() < MIN_CONTINUATION_STEP_DEG {
@@ -129,7 +147,7 @@ pub(crate) fn solve_with_continuation(
         let mut reached = true;
         for k in 1..(1 << level) {
             let a = start.0 + step * k as f64;
-            match solve_angle(section, a, settings, Some(&start.1)) {
+            match attempt(a, &start.1) {
                 Some((_, s)) if s.converged => start = (a, s.warm_start()),
                 _ => {
                     reached = false;
@@ -138,7 +156,7 @@ pub(crate) fn solve_with_continuation(
             }
         }
         if reached {
-            let again = solve_angle(section, alpha_deg, settings, Some(&start.1));
+            let again = attempt(alpha_deg, &start.1);
             if again.as_ref().is_some_and(|(_, s)| s.converged) {
                 return again;
             }
@@ -269,16 +287,15 @@ fn repair(
     }
 }
 
-/// The Newton iteration at `alpha_deg` from the iterate `warm` = (angle, state) only; when it
-/// fails, through intermediate angles (the step halved, up to two levels), each from the last
-/// converged one.
+/// The Newton iteration at `alpha_deg` from the iterate `warm` = (angle, state) only, with
+/// the continuation of [`continuation`].
 fn warm_newton_with_continuation(
     model: &SectionModel,
     alpha_deg: f64,
     settings: &ViscousSettings,
     warm: (f64, WarmStart),
-) -> Option<(CaseModel, CoupledSolution)> {
-    let attempt = |alpha: f64, start: &WarmStart| -> Option<(CaseModel, CoupledSolution)> {
+) -> Attempt {
+    let attempt = |alpha: f64, start: &WarmStart| -> Attempt {
         let case = CaseModel::new(model, alpha, settings).ok()?;
         let solution = CoupledProblem::new(&case, settings)
             .solve(start.state.as_ref()?)
@@ -286,34 +303,7 @@ fn warm_newton_with_continuation(
         Some((case, solution))
     };
     let first = attempt(alpha_deg, &warm.1);
-    if first.as_ref().is_some_and(|(_, s)| s.converged) {
-        return first;
-    }
-    let mut start = warm;
-    for level in 1..=CONTINUATION_LEVELS {
-        let step = (alpha_deg - start.0) / (1 << level) as f64;
-        if step.abs() < MIN_CONTINUATION_STEP_DEG {
-            break;
-        }
-        let mut reached = true;
-        for k in 1..(1 << level) {
-            let a = start.0 + step * k as f64;
-            match attempt(a, &start.1) {
-                Some((_, s)) if s.converged => start = (a, s.warm_start()),
-                _ => {
-                    reached = false;
-                    break;
-                }
-            }
-        }
-        if reached {
-            let again = attempt(alpha_deg, &start.1);
-            if again.as_ref().is_some_and(|(_, s)| s.converged) {
-                return again;
-            }
-        }
-    }
-    first
+    continuation(alpha_deg, warm, first, attempt)
 }
 
 /// The polar row and stations of one angle. Angles away from 0° are approached through a
