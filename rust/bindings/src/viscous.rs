@@ -51,6 +51,22 @@ fn settings_from(d: &Bound<'_, PyDict>) -> PyResult<ViscousSettings> {
     })
 }
 
+/// The shared path of the single-section entry points: copy the section and the conditions,
+/// run `solve` with the GIL released and panics caught, map a failure to its Python exception.
+fn run_detached<'py, T: Send>(
+    py: Python<'py>,
+    name: String,
+    x: &PyReadonlyArray1<'py, f64>,
+    y: &PyReadonlyArray1<'py, f64>,
+    conditions: &Bound<'py, PyDict>,
+    solve: impl FnOnce(&Section, &ViscousSettings) -> Result<T, SolverError> + Send,
+) -> PyResult<T> {
+    let section = section(name, x, y)?;
+    let settings = settings_from(conditions)?;
+    py.detach(move || guarded(|| solve(&section, &settings)))
+        .map_err(|e| to_pyerr(py, e))
+}
+
 fn column<'py>(
     py: Python<'py>,
     dict: &Bound<'py, PyDict>,
@@ -108,12 +124,10 @@ pub fn viscous_sweep<'py>(
     alpha_deg: PyReadonlyArray1<'py, f64>,
     conditions: &Bound<'py, PyDict>,
 ) -> PyResult<Bound<'py, PyDict>> {
-    let section = section(name, &x, &y)?;
     let alphas = alpha_deg.as_array().to_vec();
-    let settings = settings_from(conditions)?;
-    let rows = py
-        .detach(move || guarded(|| coupling::analyze_viscous(&section, &alphas, &settings)))
-        .map_err(|e| to_pyerr(py, e))?;
+    let rows = run_detached(py, name, &x, &y, conditions, move |section, settings| {
+        coupling::analyze_viscous(section, &alphas, settings)
+    })?;
     rows_to_dict(py, &rows)
 }
 
@@ -128,11 +142,9 @@ pub fn viscous_solve_for_cl<'py>(
     cl: f64,
     conditions: &Bound<'py, PyDict>,
 ) -> PyResult<Bound<'py, PyDict>> {
-    let section = section(name, &x, &y)?;
-    let settings = settings_from(conditions)?;
-    let row = py
-        .detach(move || guarded(|| coupling::solve_for_cl(&section, cl, &settings)))
-        .map_err(|e| to_pyerr(py, e))?;
+    let row = run_detached(py, name, &x, &y, conditions, move |section, settings| {
+        coupling::solve_for_cl(section, cl, settings)
+    })?;
     rows_to_dict(py, &[row])
 }
 
@@ -148,13 +160,9 @@ pub fn viscous_boundary_layer<'py>(
     alpha_deg: f64,
     conditions: &Bound<'py, PyDict>,
 ) -> PyResult<Bound<'py, PyDict>> {
-    let section = section(name, &x, &y)?;
-    let settings = settings_from(conditions)?;
-    let analysis = py
-        .detach(move || {
-            guarded(|| coupling::boundary_layer_stations(&section, alpha_deg, &settings))
-        })
-        .map_err(|e| to_pyerr(py, e))?;
+    let analysis = run_detached(py, name, &x, &y, conditions, move |section, settings| {
+        coupling::boundary_layer_stations(section, alpha_deg, settings)
+    })?;
     let st = &analysis.stations;
     let dict = PyDict::new(py);
     let side_code = |s: StationSide| match s {
