@@ -20,7 +20,7 @@ fn main() {
     };
     let mut alphas = Vec::new();
     let mut a = a0;
-    while a <= a1 + 1e-9 {
+    while (a - a1) * da.signum() <= 1e-9 {
         alphas.push(a);
         a += da;
     }

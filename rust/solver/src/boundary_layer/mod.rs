@@ -7,6 +7,7 @@ pub(crate) mod laminar;
 pub mod laminar_closure;
 pub(crate) mod local_newton;
 pub mod march;
+pub mod separated_transition;
 pub mod station;
 pub mod transition;
 mod transition_interval;

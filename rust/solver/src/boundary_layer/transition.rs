@@ -16,6 +16,7 @@ use std::sync::OnceLock;
 
 use super::interpolation::MonotoneCubic;
 use super::laminar_closure::{ClosureTable, FalknerSkanClosure};
+use super::separated_transition::{combined_growth, separated_layer_growth};
 
 /// Rate of growth of the envelope amplification factor along the surface, dN/ds (1/length),
 /// for a laminar layer with shape factor h, momentum-thickness Reynolds number re_theta and momentum thickness theta.
@@ -156,11 +157,14 @@ impl OrrSommerfeldEnvelope {
 }
 
 impl AmplificationModel for OrrSommerfeldEnvelope {
+    /// The envelope rate, raised in separated flow to the separated-shear-layer rate of
+    /// [`separated_layer_growth`] (Mayle's short-bubble transition length).
     fn growth_rate(&self, h: f64, re_theta: f64, theta: f64) -> f64 {
         if theta.is_nan() || theta <= 0.0 {
             return 0.0;
         }
-        self.envelope_slope(h, re_theta) * self.closure.re_theta_growth(h) / theta
+        let envelope = self.envelope_slope(h, re_theta) * self.closure.re_theta_growth(h) / theta;
+        combined_growth(envelope, separated_layer_growth(h, re_theta, theta))
     }
 }
 

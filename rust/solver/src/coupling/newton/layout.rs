@@ -5,13 +5,20 @@
 //! wake from its second node: the wake's first node is the trailing edge itself, whose state
 //! is the merge of the two sides' trailing-edge states, so it carries no unknowns of its own,
 //! and its mass defect (the sum of the two sides') is folded into their influence columns.
+//!
+//! A surface node much closer to the stagnation point than the next node of its side carries
+//! no unknowns either: its first interval would span a large ratio of edge speeds (ue ≈ K·s
+//! near the point), where one-step quadrature of the integral equations is poor and the edge
+//! speed changes sign as the point moves across the node. Its mass defect follows the side's
+//! first station as the Hiemenz solution does (δ* constant, ue ∝ s: m ∝ s), so it vanishes as
+//! the point reaches the node and the station set stays put while the point crosses it.
 
 use std::ops::Range;
 
 use crate::linalg::DenseMatrix;
 
 use super::super::model::CaseModel;
-use super::super::stagnation::{arc_length_at_x, SurfaceSplit};
+use super::super::stagnation::{arc_length_at_x, SideNodes, SurfaceSplit};
 
 /// What a station's residuals start from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -45,15 +52,50 @@ pub(crate) struct Layout {
     pub trips: [Option<f64>; 2],
     /// Inviscid edge speed of each station (positive downstream).
     pub ue_inviscid: Vec<f64>,
-    /// ∂ue_k/∂m_l between stations (trailing-edge columns include the merged wake node).
+    /// ∂ue_k/∂m_l between stations (trailing-edge columns include the merged wake node, and
+    /// each side's first column its node left out at the stagnation point).
     pub influence: DenseMatrix,
+    /// Surface nodes left out at the stagnation point: (node, first station of its side,
+    /// m_node / m_station).
+    pub near_stagnation: Vec<(usize, usize, f64)>,
+}
+
+/// A side's first node is left out when it is closer to the stagnation point than this
+/// fraction of the next node's distance (our choice: the first interval then spans an
+/// edge-speed ratio of at most about four).
+const NEAR_STAGNATION_FRACTION: f64 = 0.25;
+
+/// Removes from `side` a first node much closer to the stagnation point than the next one;
+/// returns it with its arc length.
+fn trim_near_stagnation(side: &mut SideNodes) -> Option<(usize, f64)> {
+    if side.nodes.len() > 3 && side.s[0] < NEAR_STAGNATION_FRACTION * side.s[1] {
+        let node = side.nodes.remove(0);
+        let s = side.s.remove(0);
+        Some((node, s))
+    } else {
+        None
+    }
 }
 
 impl Layout {
     /// Builds the layout of `split` for the case, with trips at x/c `trips` (upper, lower).
-    pub(crate) fn new(case: &CaseModel, split: SurfaceSplit, trips: [Option<f64>; 2]) -> Self {
+    pub(crate) fn new(case: &CaseModel, mut split: SurfaceSplit, trips: [Option<f64>; 2]) -> Self {
         let ns = case.n_surface;
         let stag = split.stagnation.node;
+        // Nodes the split already left out (on the stagnation point) and those trimmed here.
+        let mut left_out: Vec<(usize, usize, f64)> = Vec::new();
+        for node in [stag, stag + 1] {
+            if node < ns && !split.upper.nodes.contains(&node) && !split.lower.nodes.contains(&node)
+            {
+                let side = usize::from(node > stag);
+                left_out.push((node, side, (case.arc[node] - split.stagnation.s).abs()));
+            }
+        }
+        for (side, nodes) in [&mut split.upper, &mut split.lower].into_iter().enumerate() {
+            if let Some((node, s)) = trim_near_stagnation(nodes) {
+                left_out.push((node, side, s));
+            }
+        }
         let mut nodes = Vec::new();
         let mut s = Vec::new();
         let mut role = Vec::new();
@@ -82,6 +124,13 @@ impl Layout {
             .map(|&node| case.edge_sign(node, stag) * case.q_inviscid[node])
             .collect();
         let te = [upper.end - 1, lower.end - 1];
+        let near_stagnation: Vec<(usize, usize, f64)> = left_out
+            .into_iter()
+            .map(|(node, side, d)| {
+                let first = if side == 0 { upper.start } else { lower.start };
+                (node, first, d / s[first].max(f64::MIN_POSITIVE))
+            })
+            .collect();
         let mut influence = DenseMatrix::zeros(k_total, k_total);
         let has_wake = case.n_total() > ns;
         for (k, &node_k) in nodes.iter().enumerate() {
@@ -93,6 +142,9 @@ impl Layout {
                 let folded = case.influence_between(node_k, ns, stag);
                 row[te[0]] += folded;
                 row[te[1]] += folded;
+            }
+            for &(node, first, ratio) in &near_stagnation {
+                row[first] += ratio * case.influence_between(node_k, node, stag);
             }
         }
         let trip_s = [
@@ -110,6 +162,7 @@ impl Layout {
             trips: trip_s,
             ue_inviscid,
             influence,
+            near_stagnation,
         }
     }
 
@@ -145,8 +198,8 @@ impl Layout {
     }
 
     /// Mass defect of every case node (boundary-layer sense): the stations' own, the merged
-    /// trailing-edge node's as the sum of the two sides', zero on a node left out at the
-    /// stagnation point.
+    /// trailing-edge node's as the sum of the two sides', and a node left out at the
+    /// stagnation point its side's first station's in proportion to arc length.
     pub(crate) fn node_mass_defect(&self, case: &CaseModel, m: &[f64]) -> Vec<f64> {
         let mut full = vec![0.0; case.n_total()];
         for (&node, &v) in self.nodes.iter().zip(m) {
@@ -155,6 +208,9 @@ impl Layout {
         if case.n_total() > case.n_surface {
             let [u, l] = self.trailing_edges();
             full[case.n_surface] = m[u] + m[l];
+        }
+        for &(node, first, ratio) in &self.near_stagnation {
+            full[node] = ratio * m[first];
         }
         full
     }

@@ -50,6 +50,10 @@ const LINE_SEARCH_HALVINGS: usize = 4;
 const CHORD_REDUCTION: f64 = 0.25;
 /// Cap on the Newton iterations of one case.
 const MAX_NEWTON_ITERATIONS: usize = 60;
+/// Iterations without a new lowest residual after which the iteration gives up (a stalled
+/// iterate, typically pinned at a closure bound, does not recover; the caller's next start
+/// is a better use of the time).
+const STALL_ITERATIONS: usize = 12;
 /// Largest shape factor the residuals are evaluated at (keeps a wild first iterate, with an
 /// edge speed near zero at the trailing edge, finite).
 const MAX_EVALUATED_SHAPE_FACTOR: f64 = 40.0;
@@ -170,6 +174,7 @@ impl<'a> CoupledProblem<'a> {
         // The factorised Jacobian of the last full Newton step, kept for chord steps while
         // they reduce the residual fast enough.
         let mut frozen: Option<Factorisation> = None;
+        let (mut lowest, mut lowest_at) = (f64::INFINITY, 0);
         for iteration in 1..=MAX_NEWTON_ITERATIONS.min(self.settings.max_iterations.max(1)) {
             iterations = iteration;
             let ue = layout.edge_speeds(&unknowns.m);
@@ -196,6 +201,11 @@ impl<'a> CoupledProblem<'a> {
                 });
             if !residual.is_finite() {
                 residual = f64::NAN;
+                break;
+            }
+            if residual < 0.5 * lowest {
+                (lowest, lowest_at) = (residual, iteration);
+            } else if iteration - lowest_at >= STALL_ITERATIONS {
                 break;
             }
             let settled = residual < REGIME_MOVE_RESIDUAL;

@@ -264,7 +264,12 @@ impl CoupledProblem<'_> {
                 entrainment: 0.0,
                 edge_velocity: ue[j],
             };
-            self.make_turbulent_from(unknowns, ue, j, &laminar);
+            // Station j keeps its θ and mass defect (a jump of one station's displacement is a
+            // strong local source that upsets the edge speeds around it) and takes the
+            // entrainment of the turbulent start.
+            let start = turbulent_start(&laminar, self.ctx.reynolds);
+            unknowns.regime[j] = Regime::Turbulent;
+            unknowns.third[j] = start.entrainment;
             unknowns.transition[j] = Some([ln_theta, f]);
         }
         if t < range.end {
@@ -283,8 +288,15 @@ impl CoupledProblem<'_> {
                 unknowns.transition[k] = None;
             }
         } else {
+            // Transition pulled up from the trailing edge: the stations behind it keep their
+            // θ and mass defect (so the edge speeds, and with them the circulation, do not
+            // jump) and take the entrainment of a turbulent start.
             for k in j + 1..t {
-                self.make_turbulent(unknowns, ue, k);
+                let state = self.layer_state(unknowns, ue, k);
+                let start = turbulent_start(&state, self.ctx.reynolds);
+                unknowns.regime[k] = Regime::Turbulent;
+                unknowns.third[k] = start.entrainment;
+                unknowns.transition[k] = None;
             }
         }
     }
