@@ -21,7 +21,7 @@ def naca0012():
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: the point converges at cd 0.00557, 14 % below "
+    reason="known miss, docs/validation.md: the point converges at cd 0.00558, 14 % below "
     "Ladson's 0.0065 (transition predicted at x/c 0.38 with N = 9)",
     strict=False,
 )

@@ -32,8 +32,8 @@ def _assert_converged_rows_finite(frame: pl.DataFrame) -> None:
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 70 % of the 228 points converge (most failures at "
-    "Re 2e5 and above about 5 deg); converged rows are finite (checked below)",
+    reason="known miss, docs/validation.md: 92 % of the 228 points converge (210; most failures "
+    "at Re 2e5 and near maximum lift); converged rows are finite (checked below)",
     strict=False,
 )
 def test_family_sweep_converges():
@@ -60,7 +60,8 @@ def test_family_sweep_converged_rows_are_finite():
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 1-6 of the 11 angles converge at each Reynolds number",
+    reason="known miss, docs/validation.md: 4-8 of the 11 angles converge at each Reynolds number "
+    "(26 of 44; 8-10 deg fail everywhere)",
     strict=False,
 )
 @pytest.mark.parametrize("reynolds", [1e5, 2e5, 3e5, 5e5])
