@@ -65,7 +65,7 @@ impl CoupledProblem<'_> {
     /// Base weight of the integration rule of the interval into station k: backward Euler on
     /// the first interval of a side and of the wake (the start states are only approximate),
     /// the trapezoidal rule elsewhere (raised towards backward Euler where H changes fast).
-    fn weight(&self, layout: &Layout, k: usize) -> f64 {
+    pub(super) fn weight(&self, layout: &Layout, k: usize) -> f64 {
         let first = match layout.role[k] {
             Role::WakeFirst => true,
             Role::Interval => layout.role[k - 1] == Role::Start,

@@ -7,12 +7,16 @@
 //! continuous. Independently, a laminar station upstream whose amplification factor has
 //! reached the critical value (or that lies past the trip) pulls transition up to it.
 
-use crate::boundary_layer::intervals::{transition_point, transition_shape_factor};
+use crate::boundary_layer::intervals::{
+    laminar_interval_residual, transition_point, transition_shape_factor, upwinded_weight,
+    StationState,
+};
 use crate::boundary_layer::lag_entrainment::turbulent_start;
-use crate::boundary_layer::march::{laminar_step, EdgeCondition, StepMemory};
-use crate::boundary_layer::{LayerState, MarchSettings, Regime};
+use crate::boundary_layer::local_newton::{solve, NewtonOptions};
+use crate::boundary_layer::{LayerState, Regime};
 
 use super::layout::Layout;
+use super::step::{LAMINAR_MAX_SHAPE_FACTOR, LAMINAR_MIN_SHAPE_FACTOR};
 use super::{CoupledProblem, Unknowns};
 
 /// How far outside [0, 1] the transition point of an unsettled iterate may lie before it moves.
@@ -152,8 +156,8 @@ impl CoupledProblem<'_> {
                 // with the point's laminar state.
                 let a = self.station(unknowns, ue, t - 1);
                 let ds = layout.s[t] - layout.s[t - 1];
-                // The laminar state at t: the laminar interval's own equations with the
-                // current edge speed, or the point's state where they have no solution.
+                // The laminar state at t: the laminar interval's own (Newton) equations with
+                // the current edge speed, or the point's state where they have no solution.
                 // (The point lies at f > 1: interpolate its laminar state back to f = 1.)
                 let ln_theta_at_t = a.state.theta.ln() + (ln_theta - a.state.theta.ln()) / f;
                 let estimate = LayerState {
@@ -162,30 +166,15 @@ impl CoupledProblem<'_> {
                     entrainment: 0.0,
                     edge_velocity: ue[t].max(1e-6),
                 };
-                let (stepped, ok) = laminar_step(
-                    &a.state,
-                    ds,
-                    EdgeCondition {
-                        external_velocity: ue[t].max(1e-6),
-                        interaction_coefficient: 0.0,
-                    },
-                    &MarchSettings::new(self.ctx.reynolds),
-                    self.ctx.closure,
-                    false,
-                    &mut StepMemory::default(),
-                );
-                let laminar = if ok && stepped.theta.is_finite() && stepped.shape_factor.is_finite()
-                {
-                    stepped
-                } else {
-                    estimate
-                };
+                let laminar = self
+                    .solve_laminar_interval(layout, &a, ds, t, &estimate)
+                    .unwrap_or(estimate);
                 let n = a.amplification
                     + 0.5 * ds * (self.ctx.growth(&a.state) + self.ctx.growth(&laminar));
                 unknowns.regime[t] = Regime::Laminar;
                 unknowns.third[t] = n.min(self.ctx.n_critical - 1e-9);
                 unknowns.ln_theta[t] = laminar.theta.ln();
-                unknowns.m[t] = laminar.theta * laminar.shape_factor * laminar.edge_velocity;
+                // (m kept: see transition_at)
                 unknowns.transition[t] = None;
                 if t + 1 < range.end {
                     let ratio = ds / (layout.s[t + 1] - layout.s[t]);
@@ -196,6 +185,52 @@ impl CoupledProblem<'_> {
             }
         }
         moved
+    }
+
+    /// The laminar state at station t that satisfies the momentum and kinetic-energy equations
+    /// of the interval from `a` (the discretisation of the coupled residuals, so the iterate
+    /// stays settled after the move) at t's current edge speed; None when the local Newton
+    /// iteration from `guess` does not converge.
+    fn solve_laminar_interval(
+        &self,
+        layout: &Layout,
+        a: &StationState,
+        ds: f64,
+        t: usize,
+        guess: &LayerState,
+    ) -> Option<LayerState> {
+        let base_weight = self.weight(layout, t);
+        let ue_t = guess.edge_velocity;
+        let state_of = |x: &[f64; 2]| StationState {
+            state: LayerState {
+                theta: x[0].exp(),
+                shape_factor: x[1],
+                entrainment: 0.0,
+                edge_velocity: ue_t,
+            },
+            amplification: a.amplification,
+        };
+        let residual = |x: &[f64; 2]| {
+            let b = state_of(x);
+            let w = base_weight.max(upwinded_weight(a.state.shape_factor, x[1]));
+            let r = laminar_interval_residual(&self.ctx, a, &b, ds, w);
+            [r[0], r[1]]
+        };
+        let options = NewtonOptions {
+            max_iterations: 30,
+            tolerance: 1e-10,
+            lower: [guess.theta.ln() - 2.0, LAMINAR_MIN_SHAPE_FACTOR],
+            upper: [guess.theta.ln() + 2.0, LAMINAR_MAX_SHAPE_FACTOR],
+            max_step: [0.3, 0.5],
+            typical: [1.0, 1.0],
+        };
+        let outcome = solve(
+            [guess.theta.ln(), guess.shape_factor],
+            residual,
+            &options,
+            &mut None,
+        );
+        outcome.converged.then(|| state_of(&outcome.x).state)
     }
 
     /// Laminar shape factor at the transition point of station t at fraction f (see
