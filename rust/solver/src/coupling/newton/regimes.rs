@@ -21,6 +21,9 @@ use super::{CoupledProblem, Unknowns};
 
 /// How far outside [0, 1] the transition point of an unsettled iterate may lie before it moves.
 const UNSETTLED_FRACTION_SLACK: f64 = 0.5;
+/// How far past the end of the last interval a trailing-edge transition point may lie before
+/// the layer is made laminar to the trailing edge (intervals; our choice).
+const TRAILING_EDGE_FRACTION_SLACK: f64 = 1.0;
 /// How far past the critical N a laminar station of an unsettled iterate may be before it
 /// pulls transition up.
 const UNSETTLED_N_MARGIN: f64 = 1.0;
@@ -137,6 +140,15 @@ impl CoupledProblem<'_> {
             } else {
                 UNSETTLED_FRACTION_SLACK
             };
+            // Off the trailing edge only well beyond it: a transition point just past the end
+            // of the last interval and a layer laminar to the trailing edge are two discrete
+            // systems whose trailing-edge displacement differs, and between them the iterate
+            // would cycle.
+            let downstream_slack = if t + 1 == range.end {
+                slack.max(TRAILING_EDGE_FRACTION_SLACK)
+            } else {
+                slack
+            };
             if f < -slack && t - 1 > range.start {
                 let h_t = self.transition_shape(layout, unknowns, ue, t, f);
                 // One interval upstream: the station before becomes the transition station.
@@ -151,7 +163,7 @@ impl CoupledProblem<'_> {
                 unknowns.transition[t - 1] = Some([ln_theta, (1.0 + f * ratio).clamp(0.0, 1.0)]);
                 unknowns.transition[t] = None;
                 moved = true;
-            } else if f > 1.0 + slack {
+            } else if f > 1.0 + downstream_slack {
                 // One interval downstream (or off the trailing edge): station t turns laminar
                 // with the point's laminar state.
                 let a = self.station(unknowns, ue, t - 1);
