@@ -22,8 +22,9 @@ use super::{CoupledProblem, Unknowns};
 /// How far outside [0, 1] the transition point of an unsettled iterate may lie before it moves.
 const UNSETTLED_FRACTION_SLACK: f64 = 0.5;
 /// How far past the end of the last interval a trailing-edge transition point may lie before
-/// the layer is made laminar to the trailing edge (intervals; our choice).
-const TRAILING_EDGE_FRACTION_SLACK: f64 = 1.0;
+/// the layer is made laminar to the trailing edge (intervals; our choice, inside the bound of
+/// 2 the step keeps fractions within).
+const TRAILING_EDGE_FRACTION_SLACK: f64 = 0.75;
 /// How far past the critical N a laminar station of an unsettled iterate may be before it
 /// pulls transition up.
 const UNSETTLED_N_MARGIN: f64 = 1.0;
@@ -49,6 +50,15 @@ impl CoupledProblem<'_> {
         unknowns.ln_theta[k] = start.theta.ln();
         unknowns.m[k] = start.theta * start.shape_factor * ue[k].max(1e-6);
         unknowns.transition[k] = None;
+    }
+
+    /// Makes station k turbulent in place: its θ and mass defect stay (a jump of one station's
+    /// displacement is a strong local source that upsets the edge speeds around it and, through
+    /// the Kutta condition, the circulation); CE is that of the turbulent start of `laminar`.
+    fn switch_to_turbulent(&self, unknowns: &mut Unknowns, k: usize, laminar: &LayerState) {
+        let start = turbulent_start(laminar, self.ctx.reynolds);
+        unknowns.regime[k] = Regime::Turbulent;
+        unknowns.third[k] = start.entrainment;
     }
 
     /// Gives the first turbulent station of each side (after a laminar one) its transition
@@ -159,7 +169,8 @@ impl CoupledProblem<'_> {
                     entrainment: 0.0,
                     edge_velocity: ue[t - 1],
                 };
-                self.make_turbulent_from(unknowns, ue, t - 1, &laminar);
+                // Station t − 1 keeps its θ and mass defect (see `transition_at`).
+                self.switch_to_turbulent(unknowns, t - 1, &laminar);
                 unknowns.transition[t - 1] = Some([ln_theta, (1.0 + f * ratio).clamp(0.0, 1.0)]);
                 unknowns.transition[t] = None;
                 moved = true;
@@ -311,12 +322,7 @@ impl CoupledProblem<'_> {
                 entrainment: 0.0,
                 edge_velocity: ue[j],
             };
-            // Station j keeps its θ and mass defect (a jump of one station's displacement is a
-            // strong local source that upsets the edge speeds around it) and takes the
-            // entrainment of the turbulent start.
-            let start = turbulent_start(&laminar, self.ctx.reynolds);
-            unknowns.regime[j] = Regime::Turbulent;
-            unknowns.third[j] = start.entrainment;
+            self.switch_to_turbulent(unknowns, j, &laminar);
             unknowns.transition[j] = Some([ln_theta, f]);
         }
         if t < range.end {
@@ -340,9 +346,7 @@ impl CoupledProblem<'_> {
             // jump) and take the entrainment of a turbulent start.
             for k in j + 1..t {
                 let state = self.layer_state(unknowns, ue, k);
-                let start = turbulent_start(&state, self.ctx.reynolds);
-                unknowns.regime[k] = Regime::Turbulent;
-                unknowns.third[k] = start.entrainment;
+                self.switch_to_turbulent(unknowns, k, &state);
                 unknowns.transition[k] = None;
             }
         }

@@ -67,9 +67,11 @@ impl CoupledProblem<'_> {
                 );
             }
             if unknowns.transition[k].is_some() {
-                let [_, _, dlt, df] = step.local[k];
+                let [_, _, dlt, _] = step.local[k];
                 limit(dlt, MAX_LOG_THETA_STEP);
-                limit(df, MAX_FRACTION_STEP);
+                // (The fraction is clipped on its own below: where the amplification grows
+                // slowly through the interval its correction is large and would stall every
+                // other variable's step.)
             }
         }
         for k in 0..layout.len() {
@@ -89,7 +91,8 @@ impl CoupledProblem<'_> {
             if let Some(t) = unknowns.transition[k].as_mut() {
                 t[0] += own * dlt;
                 // Kept within one interval either side: beyond that the point moves.
-                t[1] = (t[1] + own * df).clamp(-1.0, 2.0);
+                let change = (own * df).clamp(-MAX_FRACTION_STEP, MAX_FRACTION_STEP);
+                t[1] = (t[1] + change).clamp(-1.0, 2.0);
             }
             unknowns.m[k] = (unknowns.m[k] + own * step.mass[k]).max(1e-12);
             if unknowns.regime[k] != Regime::Laminar {
