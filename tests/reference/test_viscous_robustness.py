@@ -32,7 +32,7 @@ def _assert_converged_rows_finite(frame: pl.DataFrame) -> None:
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 92 % of the 228 points converge (210; most failures "
+    reason="known miss, docs/validation.md: 94 % of the 228 points converge (214; most failures "
     "at Re 2e5 and near maximum lift); converged rows are finite (checked below)",
     strict=False,
 )
@@ -60,7 +60,7 @@ def test_family_sweep_converged_rows_are_finite():
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 4-8 of the 11 angles converge at each Reynolds number "
+    reason="known miss, docs/validation.md: 5-8 of the 11 angles converge at each Reynolds number "
     "(26 of 44; 8-10 deg fail everywhere)",
     strict=False,
 )
