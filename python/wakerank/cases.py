@@ -22,6 +22,7 @@ from typing import Any
 
 import numpy as np
 
+from wakerank._core import core_version
 from wakerank.campaign import (
     Campaign,
     CstFamily,
@@ -140,7 +141,11 @@ class CampaignPlan:
         chunks = []
         for start in range(0, len(cases), self.chunk_size):
             group = tuple(cases[start : start + self.chunk_size])
-            chunks.append(ChunkSpec(stable_hash([case.case_id for case in group]), group))
+            # The solver version is part of the identity: a catalog resumed by another
+            # version recomputes its chunks (the old parts move to superseded/) instead of
+            # mixing results of two solvers.
+            identity = {"solver": core_version(), "cases": [case.case_id for case in group]}
+            chunks.append(ChunkSpec(stable_hash(identity), group))
         return tuple(chunks)
 
     @property

@@ -67,6 +67,21 @@ def test_rerun_reuses_every_part_and_writes_nothing_twice(campaign_file, tmp_pat
     assert before == after
 
 
+def test_rerun_with_another_solver_version_recomputes_every_part(
+    campaign_file, tmp_path, monkeypatch
+):
+    # Results of two solver versions are never mixed in one catalog (common practice).
+    import wakerank.cases
+
+    first = _run(campaign_file, tmp_path / "cat")
+    monkeypatch.setattr(wakerank.cases, "core_version", lambda: "0.0.0-other")
+    again = _run(campaign_file, tmp_path / "cat")
+    assert again.reused_chunks == 0 and again.computed_chunks == first.chunks
+    assert again.superseded_parts == first.chunks
+    assert len(list((tmp_path / "cat" / "superseded").iterdir())) == first.chunks
+    assert _points(tmp_path / "cat").height == first.points
+
+
 def test_truncated_part_is_detected_and_recomputed(campaign_file, tmp_path):
     _run(campaign_file, tmp_path / "cat")
     reference = _points(tmp_path / "cat")
