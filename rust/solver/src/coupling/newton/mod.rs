@@ -47,7 +47,7 @@ const REGIME_MOVE_RESIDUAL: f64 = 1e-3;
 const LINE_SEARCH_HALVINGS: usize = 4;
 /// A chord step (the last Jacobian kept) is accepted as long as it cuts the residual's
 /// 2-norm at least by this factor; otherwise the Jacobian is refreshed.
-const CHORD_REDUCTION: f64 = 0.25;
+const CHORD_REDUCTION: f64 = 0.5;
 /// Cap on the Newton iterations of one case.
 const MAX_NEWTON_ITERATIONS: usize = 60;
 /// Iterations without a new lowest residual after which the iteration gives up (a stalled
