@@ -42,10 +42,54 @@ fn assemble(
         x: origin.iter().map(|&i| x[i]).collect(),
         y: origin.iter().map(|&i| y[i]).collect(),
     };
+    close_single_trailing_edge_point(&mut section);
     if normalise {
         normalise_to_unit_chord(&mut section);
     }
     Ok(section)
+}
+
+/// Largest angle between the trailing-edge gap and the surface it would continue for the gap to
+/// count as a missing repeated point (our choice; a blunt base stands nearly normal to both
+/// surfaces).
+const CONTINUATION_ANGLE_DEG: f64 = 30.0;
+/// Largest gap, in lengths of the surface's last segment, for the same reading.
+const CONTINUATION_LENGTHS: f64 = 1.5;
+
+/// A loop that lists its trailing-edge point only once (at one end) reads as a section with a
+/// gap between that point and the other surface's last point. When the gap continues one
+/// surface — nearly along its last segment and not much longer than it, where a blunt base
+/// stands nearly normal to both surfaces — the surface is closed on the listed point: the
+/// point is repeated at that end (the trailing edge is sharp, as the file meant).
+fn close_single_trailing_edge_point(section: &mut Section) {
+    let n = section.x.len();
+    if n < 4 {
+        return;
+    }
+    let (x, y) = (&section.x, &section.y);
+    let gap = (x[0] - x[n - 1], y[0] - y[n - 1]);
+    let gap_length = gap.0.hypot(gap.1);
+    if gap_length == 0.0 {
+        return;
+    }
+    let continues = |tangent: (f64, f64), along: (f64, f64)| {
+        let length = tangent.0.hypot(tangent.1);
+        length > 0.0
+            && gap_length <= CONTINUATION_LENGTHS * length
+            && (tangent.0 * along.0 + tangent.1 * along.1) / (length * gap_length)
+                >= CONTINUATION_ANGLE_DEG.to_radians().cos()
+    };
+    // The lower surface's last segment continued by the gap to the first point, or the upper
+    // surface's first segment (towards the trailing edge) continued back to the last point.
+    let lower = (x[n - 1] - x[n - 2], y[n - 1] - y[n - 2]);
+    let upper = (x[0] - x[1], y[0] - y[1]);
+    if continues(lower, gap) {
+        section.x.push(x[0]);
+        section.y.push(y[0]);
+    } else if continues(upper, (-gap.0, -gap.1)) {
+        section.x.insert(0, x[n - 1]);
+        section.y.insert(0, y[n - 1]);
+    }
 }
 
 /// Translate, rotate and scale in place so that the leading edge is at (0, 0) and the
@@ -162,6 +206,50 @@ mod tests {
             t.push_str(&format!("{:.6} {:.6}\n", s.x[i], s.y[i]));
         }
         t
+    }
+
+    #[test]
+    fn loop_listing_the_trailing_edge_once_is_closed() {
+        // A loop from (1, 0) round the leading edge that stops on the lower surface just short
+        // of (1, 0): the gap continues the lower surface, so the trailing edge is sharp.
+        let mut text = String::from("single-point trailing edge\n");
+        let n = 40;
+        let mut points = Vec::new();
+        for i in 0..n {
+            let t = std::f64::consts::PI * i as f64 / (n - 1) as f64;
+            let xx = 0.5 * (1.0 + t.cos());
+            points.push((xx, 0.06 * (1.0 - xx) * xx.sqrt() * 4.0));
+        }
+        for i in 1..n - 1 {
+            let t = std::f64::consts::PI * (n - 1 - i) as f64 / (n - 1) as f64;
+            let xx = 0.5 * (1.0 + t.cos());
+            points.push((xx, -0.04 * (1.0 - xx) * xx.sqrt() * 4.0));
+        }
+        for (xx, yy) in &points {
+            text.push_str(&format!("{xx:.6} {yy:.6}\n"));
+        }
+        let section = parse_coordinates(&text, "single.dat").unwrap();
+        let last = section.len() - 1;
+        assert_eq!((section.x[0], section.y[0]), (section.x[last], section.y[last]));
+        assert_eq!(section.len(), points.len() + 1);
+    }
+
+    #[test]
+    fn blunt_base_is_kept() {
+        // A vertical base between the two trailing-edge points is a real blunt trailing edge.
+        let x: Vec<f64> = (0..30)
+            .map(|i| 0.5 * (1.0 + (std::f64::consts::PI * i as f64 / 29.0).cos()))
+            .collect();
+        let mut xs = x.clone();
+        let mut ys: Vec<f64> = x.iter().map(|&v| 0.002 + 0.05 * (1.0 - v) * v.sqrt()).collect();
+        for &v in x.iter().rev().skip(1) {
+            xs.push(v);
+            ys.push(-0.002 - 0.05 * (1.0 - v) * v.sqrt());
+        }
+        let section = from_points(xs.clone(), ys, "blunt", false).unwrap();
+        assert_eq!(section.len(), xs.len());
+        let last = section.len() - 1;
+        assert!((section.y[0] - section.y[last]).abs() > 0.003);
     }
 
     #[test]

@@ -5,7 +5,7 @@
 //! `cargo test -p wakerank-solver --test it robustness -- --ignored --nocapture`.
 
 use wakerank_solver::coupling::{analyze_viscous, ViscousSettings};
-use wakerank_solver::geometry::{coordinates::parse_coordinates, naca};
+use wakerank_solver::geometry::{coordinates::parse_coordinates_normalised, naca};
 use wakerank_solver::viscous_batch;
 
 fn report(label: &str, rows: &[(String, f64, wakerank_solver::coupling::ViscousRow)]) -> f64 {
@@ -57,7 +57,9 @@ fn robustness_sweep_share() {
 #[ignore]
 fn e387_sweep_share() {
     let path = concat!(env!("CARGO_MANIFEST_DIR"), "/../../tests/data/e387.txt");
-    let section = parse_coordinates(&std::fs::read_to_string(path).unwrap(), "e387.txt").unwrap();
+    let section =
+        parse_coordinates_normalised(&std::fs::read_to_string(path).unwrap(), "e387.txt", true)
+            .unwrap();
     let alphas: Vec<f64> = (0..=10).map(f64::from).collect();
     let mut rows = Vec::new();
     for re in [1e5, 2e5, 3e5, 5e5] {
