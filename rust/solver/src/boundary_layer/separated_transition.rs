@@ -37,7 +37,9 @@ const LARGEST_CORRELATED_RE_THETA: f64 = 2000.0;
 /// momentum-thickness Reynolds number `re_theta` and momentum thickness `theta`: zero while
 /// attached, Mayle's short-bubble rate when fully separated, a smooth blend between.
 pub fn separated_layer_growth(h: f64, re_theta: f64, theta: f64) -> f64 {
-    if !(h > SEPARATION_SHAPE_FACTOR) || !(re_theta > 0.0) || !(theta > 0.0) {
+    // (Written so that NaN inputs also give zero.)
+    let attached = h.partial_cmp(&SEPARATION_SHAPE_FACTOR) != Some(std::cmp::Ordering::Greater);
+    if attached || re_theta.is_nan() || re_theta <= 0.0 || theta.is_nan() || theta <= 0.0 {
         return 0.0;
     }
     let t = ((h - SEPARATION_SHAPE_FACTOR)

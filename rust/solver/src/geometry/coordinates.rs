@@ -230,7 +230,10 @@ mod tests {
         }
         let section = parse_coordinates(&text, "single.dat").unwrap();
         let last = section.len() - 1;
-        assert_eq!((section.x[0], section.y[0]), (section.x[last], section.y[last]));
+        assert_eq!(
+            (section.x[0], section.y[0]),
+            (section.x[last], section.y[last])
+        );
         assert_eq!(section.len(), points.len() + 1);
     }
 
@@ -241,7 +244,10 @@ mod tests {
             .map(|i| 0.5 * (1.0 + (std::f64::consts::PI * i as f64 / 29.0).cos()))
             .collect();
         let mut xs = x.clone();
-        let mut ys: Vec<f64> = x.iter().map(|&v| 0.002 + 0.05 * (1.0 - v) * v.sqrt()).collect();
+        let mut ys: Vec<f64> = x
+            .iter()
+            .map(|&v| 0.002 + 0.05 * (1.0 - v) * v.sqrt())
+            .collect();
         for &v in x.iter().rev().skip(1) {
             xs.push(v);
             ys.push(-0.002 - 0.05 * (1.0 - v) * v.sqrt());

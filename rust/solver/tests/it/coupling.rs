@@ -153,7 +153,12 @@ fn stagnation_point_crossing_nodes_leaves_the_polar_smooth() {
     let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
     for row in &rows {
         assert!(row.converged, "alpha {} did not converge", row.alpha_deg);
-        assert!(row.residual < 1e-6, "alpha {}: residual {}", row.alpha_deg, row.residual);
+        assert!(
+            row.residual < 1e-6,
+            "alpha {}: residual {}",
+            row.alpha_deg,
+            row.residual
+        );
     }
     let steps: Vec<f64> = rows.windows(2).map(|w| w[1].cl - w[0].cl).collect();
     let mean = steps.iter().sum::<f64>() / steps.len() as f64;
