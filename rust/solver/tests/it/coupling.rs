@@ -81,6 +81,20 @@ fn batch_is_deterministic_and_converged_rows_are_finite() {
     }
 }
 
+/// Every row converged, to an equation residual below 1e-6 (the Newton solution's, not the
+/// looser velocity residual of the quasi-simultaneous iteration).
+fn assert_tightly_converged(rows: &[wakerank_solver::coupling::ViscousRow]) {
+    for row in rows {
+        assert!(row.converged, "alpha {} did not converge", row.alpha_deg);
+        assert!(
+            row.residual < 1e-6,
+            "alpha {}: residual {}",
+            row.alpha_deg,
+            row.residual
+        );
+    }
+}
+
 #[test]
 fn coupled_newton_converges_tightly_and_symmetrically() {
     // Common practice for a coupled solver: attached cases converge to a small equation
@@ -90,14 +104,8 @@ fn coupled_newton_converges_tightly_and_symmetrically() {
     let settings = ViscousSettings::new(6e6);
     let alphas = [-4.0, -2.0, 0.0, 2.0, 4.0];
     let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
+    assert_tightly_converged(&rows);
     for row in &rows {
-        assert!(row.converged, "alpha {} did not converge", row.alpha_deg);
-        assert!(
-            row.residual < 1e-6,
-            "alpha {}: residual {}",
-            row.alpha_deg,
-            row.residual
-        );
         assert!(
             row.iterations <= 40,
             "alpha {}: {} iterations",
@@ -151,15 +159,7 @@ fn stagnation_point_crossing_nodes_leaves_the_polar_smooth() {
     };
     let alphas: Vec<f64> = (0..=15).map(|k| 0.1 * k as f64).collect();
     let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
-    for row in &rows {
-        assert!(row.converged, "alpha {} did not converge", row.alpha_deg);
-        assert!(
-            row.residual < 1e-6,
-            "alpha {}: residual {}",
-            row.alpha_deg,
-            row.residual
-        );
-    }
+    assert_tightly_converged(&rows);
     let steps: Vec<f64> = rows.windows(2).map(|w| w[1].cl - w[0].cl).collect();
     let mean = steps.iter().sum::<f64>() / steps.len() as f64;
     for (k, step) in steps.iter().enumerate() {
