@@ -54,12 +54,20 @@ def test_squire_young_agrees_with_far_wake(code, alpha, reynolds):
     assert row["cd_squire_young"] == pytest.approx(row["cd"], rel=0.05)
 
 
-@pytest.mark.xfail(
-    reason="known miss, docs/validation.md: friction + integrated surface pressure falls 10-16 % "
-    "short of the far-wake drag (the pressure drag from the surface integral is too small)",
+_NEAR_FIELD_SHORT = pytest.mark.xfail(
+    reason="known miss, docs/validation.md: for NACA 2412 at Re 1e6 friction + wetted-surface "
+    "pressure drag is 5.6 % below the far-wake drag",
     strict=False,
 )
-@pytest.mark.parametrize(("code", "alpha", "reynolds"), ATTACHED_CASES)
+NEAR_FIELD_CASES = [
+    ATTACHED_CASES[0],
+    ATTACHED_CASES[1],
+    pytest.param(*ATTACHED_CASES[2], marks=_NEAR_FIELD_SHORT),
+    ATTACHED_CASES[3],
+]
+
+
+@pytest.mark.parametrize(("code", "alpha", "reynolds"), NEAR_FIELD_CASES)
 def test_friction_plus_pressure_agrees_with_far_wake(code, alpha, reynolds):
     row = wr.analyze(wr.Section.naca(code), alpha_deg=alpha, reynolds=reynolds).row(0, named=True)
     assert row["converged"]

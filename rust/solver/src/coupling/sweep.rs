@@ -6,7 +6,9 @@ use crate::geometry::Section;
 
 use crate::inviscid::compressibility::karman_tsien_cp as karman_tsien;
 
-use super::forces::{far_wake_drag, friction_drag, integrate_pressure, squire_young};
+use super::forces::{
+    far_wake_drag, friction_drag, integrate_pressure, squire_young, wetted_pressure_drag,
+};
 use super::iteration::{solve_case, CoupledSolution, WarmStart, CAUTIOUS, PRIMARY, STIFF};
 use super::model::{CaseModel, SectionModel};
 use super::newton::{CoupledProblem, NewtonState};
@@ -378,7 +380,7 @@ pub(crate) fn polar_row(
     let cp: Vec<f64> = ue.iter().map(|&u| cp_of(u)).collect();
     let (xs, ys) = (&case.x[..ns], &case.y[..ns]);
     let viscous = integrate_pressure(xs, ys, &cp, alpha);
-    let cd_pressure = viscous.cd;
+    let cd_pressure = wetted_pressure_drag(xs, ys, &cp, alpha);
 
     let mut cd_friction = 0.0;
     let mut cd_sy = 0.0;
