@@ -169,7 +169,7 @@ impl CoupledProblem<'_> {
                     entrainment: 0.0,
                     edge_velocity: ue[t - 1],
                 };
-                // Station t − 1 keeps its θ and mass defect (see `transition_at`).
+                // Station t − 1 keeps its θ and mass defect (see `switch_to_turbulent`).
                 self.switch_to_turbulent(unknowns, t - 1, &laminar);
                 unknowns.transition[t - 1] = Some([ln_theta, (1.0 + f * ratio).clamp(0.0, 1.0)]);
                 unknowns.transition[t] = None;
@@ -197,7 +197,8 @@ impl CoupledProblem<'_> {
                 unknowns.regime[t] = Regime::Laminar;
                 unknowns.third[t] = n.min(self.ctx.n_critical - 1e-9);
                 unknowns.ln_theta[t] = laminar.theta.ln();
-                // (m kept: see transition_at)
+                // Its mass defect stays, as in every move (see `switch_to_turbulent`): only θ
+                // is taken from the laminar solution.
                 unknowns.transition[t] = None;
                 if t + 1 < range.end {
                     let ratio = ds / (layout.s[t + 1] - layout.s[t]);
