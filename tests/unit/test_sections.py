@@ -124,6 +124,11 @@ def test_e387_design_ordinates() -> None:
     assert s.thickness == pytest.approx(0.0907, abs=5e-4)
     assert s.thickness_position == pytest.approx(0.31, abs=0.01)
     assert s.chord == pytest.approx(1.0, abs=1e-9)
+    # The table ends both surfaces at (1, 0) (from memory); the file lists that point once, at
+    # the start of its loop, and the reader closes the lower surface on it (a sharp trailing
+    # edge).
+    assert s.properties()["trailing_edge_thickness"] == pytest.approx(0.0, abs=1e-12)
+    assert (s.x[0], s.y[0]) == (s.x[-1], s.y[-1])
 
 
 def test_from_spec_reads_designations_and_files() -> None:
