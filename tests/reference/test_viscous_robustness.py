@@ -31,12 +31,9 @@ def _assert_converged_rows_finite(frame: pl.DataFrame) -> None:
         assert np.all(np.isfinite(values.to_numpy())), column
 
 
-@pytest.mark.xfail(
-    reason="known miss, docs/validation.md: 94 % of the 228 points converge (214; most failures "
-    "at Re 2e5 and near maximum lift); converged rows are finite (checked below)",
-    strict=False,
-)
 def test_family_sweep_converges():
+    # Common practice for an unattended screening tool (the project's robustness requirement):
+    # at least 95 % of a broad family sweep converge, and no converged row holds NaN.
     sections = [wr.Section.naca(code) for code in ("0012", "2412", "4415", "23012")]
     conditions = [{"reynolds": re} for re in (2e5, 1e6, 6e6)]
     alphas = [float(a) for a in range(-6, 13)]

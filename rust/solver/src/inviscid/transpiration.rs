@@ -20,9 +20,10 @@
 //!   node carries the merged mass defect of both sides at the trailing edge.
 //!
 //! **Edge velocities.** On the surface the signed speed γᵢ (γ > 0 towards the upper trailing
-//! edge); along the wake the speed uₑ = V·t̂ along the wake direction. Wake speeds are evaluated
-//! at the wake panel midpoints, where the source sheets are regular, and interpolated linearly
-//! in s to the nodes (extrapolated at the two ends).
+//! edge); along the wake the speed uₑ = V·t̂ along the wake direction. The speed of a wake node
+//! is its average over the node's cell (the halves of the panels next to it), by two-point Gauss
+//! rules on each half-panel: the logarithmic singularity of uniform source panels at the node is
+//! integrable, and the average sees the jump of source strength there.
 //!
 //! The surface rows of the influence matrix include the re-solved vortex strengths: each unit m
 //! changes σ, which changes the normal-velocity right-hand side, and the vortex sheet re-adjusts
@@ -44,46 +45,91 @@ pub struct TranspirationSolution {
     pub wake_velocity: Vec<f64>,
 }
 
-/// Influence data of a wake: panels, and the interpolation from midpoints to nodes.
+/// Influence data of a wake: panels, the points where speeds are evaluated and the weights
+/// that average them over each node's cell.
 struct WakeData {
     panels: Panels,
-    /// For each wake node: (midpoint a, weight a, midpoint b, weight b).
-    to_nodes: Vec<(usize, f64, usize, f64)>,
+    /// Evaluation points on the wake panels: (x, y, panel).
+    points: Vec<(f64, f64, usize)>,
+    /// For each wake node: (point, weight) pairs whose sum is the node's speed.
+    to_nodes: Vec<Vec<(usize, f64)>>,
 }
 
+/// Gauss–Legendre abscissae of the two-point rule on [0, 1] (weights ½ each).
+const GAUSS_TWO_POINT: [f64; 2] = [0.211_324_865_405_187_1, 0.788_675_134_594_812_9];
+
 impl WakeData {
-    /// Wake panels and the midpoint-to-node interpolation. A wake of one panel gives both nodes
-    /// the midpoint value; a wake of fewer than two nodes has no panels and zero speeds.
+    /// Wake panels, and each node's speed as the average over its cell — the halves of the two
+    /// panels next to it (one at the ends) — by two-point Gauss rules on each half-panel.
+    ///
+    /// Averaged over a cell, the tangential speed of uniform-strength source panels sees the
+    /// jump of strength at the node (its logarithmic singularity is integrable); the midpoint
+    /// values did not, so an odd–even pattern of the wake mass defect hardly changed them and the
+    /// coupled solution carried it undamped behind the trailing edge (docs/validation.md). A wake
+    /// of fewer than two nodes has no panels and zero speeds.
     fn new(wake: &Wake) -> Self {
         let n = wake.x.len().min(wake.y.len()).min(wake.s.len());
         let panels = Panels::new(&wake.x[..n], &wake.y[..n]);
-        let mids: Vec<f64> = (0..n.saturating_sub(1))
-            .map(|k| 0.5 * (wake.s[k] + wake.s[k + 1]))
-            .collect();
-        let interp = |a: usize, b: usize, s: f64| {
-            let w_b = (s - mids[a]) / (mids[b] - mids[a]);
-            (a, 1.0 - w_b, b, w_b)
-        };
+        let count = n.saturating_sub(1);
+        let mut points = Vec::with_capacity(4 * count);
+        // Points of panel k: first half (toward node k), then second half (toward node k + 1).
+        for k in 0..count {
+            for half in 0..2 {
+                for g in GAUSS_TWO_POINT {
+                    let t = 0.5 * (half as f64 + g);
+                    let x = wake.x[k] + t * (wake.x[k + 1] - wake.x[k]);
+                    let y = wake.y[k] + t * (wake.y[k + 1] - wake.y[k]);
+                    points.push((x, y, k));
+                }
+            }
+        }
+        let half_length = |k: usize| 0.5 * (wake.s[k + 1] - wake.s[k]);
         let to_nodes = (0..n)
-            .map(|k| match mids.len() {
-                0 => (0, 0.0, 0, 0.0),
-                1 => (0, 1.0, 0, 0.0),
-                _ if k == 0 => interp(0, 1, wake.s[0]),
-                m if k == n - 1 => interp(m - 2, m - 1, wake.s[k]),
-                _ => interp(k - 1, k, wake.s[k]),
+            .map(|i| {
+                // (panel, half) pairs of node i's cell, each with its half-panel length.
+                let mut parts = Vec::with_capacity(2);
+                if i >= 1 && i - 1 < count {
+                    parts.push((i - 1, 1, half_length(i - 1)));
+                }
+                if i < count {
+                    parts.push((i, 0, half_length(i)));
+                }
+                let cell: f64 = parts.iter().map(|p| p.2).sum();
+                parts
+                    .iter()
+                    .flat_map(|&(k, half, length)| {
+                        (0..2).map(move |g| (4 * k + 2 * half + g, 0.5 * length / cell))
+                    })
+                    .collect()
             })
             .collect();
-        WakeData { panels, to_nodes }
+        WakeData {
+            panels,
+            points,
+            to_nodes,
+        }
     }
 
-    fn interpolate(&self, mid_values: &[f64]) -> Vec<f64> {
-        if mid_values.is_empty() {
-            return vec![0.0; self.to_nodes.len()];
-        }
+    /// Node values from values at the evaluation points.
+    fn to_node_values(&self, point_values: &[f64]) -> Vec<f64> {
         self.to_nodes
             .iter()
-            .map(|&(a, wa, b, wb)| wa * mid_values[a] + wb * mid_values[b])
+            .map(|parts| parts.iter().map(|&(p, w)| w * point_values[p]).sum())
             .collect()
+    }
+
+    /// Node rows from rows at the evaluation points (a row per node, same columns).
+    fn to_node_rows(&self, point_rows: &DenseMatrix, columns: usize) -> DenseMatrix {
+        let mut rows = DenseMatrix::zeros(self.to_nodes.len(), columns);
+        for (i, parts) in self.to_nodes.iter().enumerate() {
+            let out = rows.row_mut(i);
+            for &(p, w) in parts {
+                for (o, v) in out.iter_mut().zip(point_rows.row(p)) {
+                    *o += w * v;
+                }
+            }
+        }
+        rows
     }
 }
 
@@ -156,22 +202,23 @@ impl PanelSolver {
         rows
     }
 
-    /// Tangential velocity at each wake midpoint per unit γ at each surface node (`vortex`,
-    /// Nw × N) and per unit σ on each surface then wake panel (`source`, Nw × (Np + Nw)).
+    /// Tangential velocity (along the wake panel) at each wake node, averaged over its cell, per
+    /// unit γ at each surface node (`vortex`, Nw_nodes × (N + 1)) and per unit σ on each surface
+    /// then wake panel (`source`, Nw_nodes × (Np + Nw)).
     fn wake_tangential_rows(&self, wake: &WakeData) -> (DenseMatrix, DenseMatrix) {
         let (n, np, nw) = (
             self.panels.nodes(),
             self.panels.count(),
             wake.panels.count(),
         );
-        let mut vortex = DenseMatrix::zeros(nw, n + 1);
-        let mut source = DenseMatrix::zeros(nw, np + nw);
+        let count = wake.points.len();
+        let mut vortex = DenseMatrix::zeros(count, n + 1);
+        let mut source = DenseMatrix::zeros(count, np + nw);
         let mut scratch = Scratch::default();
         let (mut vu, mut vv) = (vec![0.0; n], vec![0.0; n]);
         let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
         let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
-        for k in 0..nw {
-            let (px, py) = (wake.panels.mx[k], wake.panels.my[k]);
+        for (p, &(px, py, k)) in wake.points.iter().enumerate() {
             let (tx, ty) = (wake.panels.tx[k], wake.panels.ty[k]);
             let body = Coefficients {
                 vortex: Some((&mut vu, &mut vv)),
@@ -184,11 +231,11 @@ impl PanelSolver {
             };
             influence_at(&wake.panels, px, py, Some(k), &mut scratch, own);
             for j in 0..n {
-                vortex.set(k, j, vu[j] * tx + vv[j] * ty);
+                vortex.set(p, j, vu[j] * tx + vv[j] * ty);
             }
             let (qu, qv) = self.interior().source_velocity(px, py);
-            vortex.set(k, n, qu * tx + qv * ty);
-            let row = source.row_mut(k);
+            vortex.set(p, n, qu * tx + qv * ty);
+            let row = source.row_mut(p);
             for j in 0..np {
                 row[j] = su[j] * tx + sv[j] * ty;
             }
@@ -196,15 +243,21 @@ impl PanelSolver {
                 row[np + j] = wu[j] * tx + wv[j] * ty;
             }
         }
-        (vortex, source)
+        (
+            wake.to_node_rows(&vortex, n + 1),
+            wake.to_node_rows(&source, np + nw),
+        )
     }
 
-    /// Free-stream tangential component at each wake midpoint.
+    /// Free-stream tangential component at each wake node, averaged over its cell.
     fn wake_free_stream(&self, wake: &WakeData, alpha_deg: f64) -> Vec<f64> {
         let (s, c) = alpha_deg.to_radians().sin_cos();
-        (0..wake.panels.count())
-            .map(|k| c * wake.panels.tx[k] + s * wake.panels.ty[k])
-            .collect()
+        let at_points: Vec<f64> = wake
+            .points
+            .iter()
+            .map(|&(_, _, k)| c * wake.panels.tx[k] + s * wake.panels.ty[k])
+            .collect();
+        wake.to_node_values(&at_points)
     }
 
     /// Source strengths on the surface panels and on the wake panels from the mass defects m
@@ -293,12 +346,12 @@ impl PanelSolver {
         let free = self.wake_free_stream(&data, alpha_deg);
         let induced_v = vortex.matvec(&sheet);
         let induced_s = source.matvec(&sigma);
-        let mids: Vec<f64> = (0..nw)
+        let wake_velocity = (0..data.to_nodes.len())
             .map(|k| free[k] + induced_v[k] + induced_s[k])
             .collect();
         Ok(TranspirationSolution {
             solution: self.solution_from(alpha_deg, 0.0, self.transpired_speed(alpha_deg, &sheet)),
-            wake_velocity: data.interpolate(&mids),
+            wake_velocity,
         })
     }
 
@@ -382,12 +435,16 @@ impl PanelSolver {
                 d_gamma.set(i, j, v);
             }
         }
-        // Wake rows at the midpoints: vortex part through d(sheet)/dm plus the direct source part.
+        // Wake rows (node cell averages): vortex part through d(sheet)/dm plus the direct source
+        // part.
         let (vortex, source) = self.wake_tangential_rows(&data);
-        let mut d_mid = DenseMatrix::zeros(nw, total);
-        for k in 0..nw {
+        let mut d = DenseMatrix::zeros(total, total);
+        for k in 0..nw_nodes {
+            if nw == 0 {
+                break;
+            }
             let vrow = vortex.row(k);
-            let out = d_mid.row_mut(k);
+            let out = d.row_mut(n + k);
             for i in 0..unknowns {
                 let a = vrow[i];
                 if a != 0.0 {
@@ -405,18 +462,8 @@ impl PanelSolver {
             }
         }
         // Surface rows: the node sheet strengths are the surface speeds.
-        let mut d = DenseMatrix::zeros(total, total);
         for i in 0..n {
             d.row_mut(i).copy_from_slice(d_gamma.row(i));
-        }
-        for (k, &(a, wa, b, wb)) in data.to_nodes.iter().enumerate() {
-            if nw == 0 {
-                break;
-            }
-            let (ra, rb) = (d_mid.row(a).to_vec(), d_mid.row(b).to_vec());
-            for (o, (x, y)) in d.row_mut(n + k).iter_mut().zip(ra.iter().zip(&rb)) {
-                *o = wa * x + wb * y;
-            }
         }
         d
     }
