@@ -21,8 +21,8 @@ def naca0012():
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: the point converges at cd 0.00558, 14 % below "
-    "Ladson's 0.0065 (transition predicted at x/c 0.38 with N = 9)",
+    reason="known miss, docs/validation.md: the point converges at cd 0.00556, 14 % below "
+    "Ladson's 0.0065 (transition predicted at x/c 0.37 with N = 9)",
     strict=False,
 )
 def test_free_transition_cd_at_zero_lift_re6e6(naca0012):
@@ -47,7 +47,7 @@ def test_tripped_cd_at_zero_lift_re6e6(naca0012):
 
 
 @pytest.mark.xfail(
-    reason="known miss, docs/validation.md: slope 0.1132/deg over 0-8 deg, +5.3 % on McCroskey's "
+    reason="known miss, docs/validation.md: slope 0.1147/deg over 0-8 deg, +6.7 % on McCroskey's "
     "0.1075 (the viscous lift loss is about half the measured one)",
     strict=False,
 )
