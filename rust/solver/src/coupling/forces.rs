@@ -23,23 +23,7 @@ pub struct PressureForces {
 /// normal n, cl = F·(−sin α, cos α), cd = F·(cos α, sin α), and the moment of the same
 /// pressure about the quarter chord.
 pub fn integrate_pressure(x: &[f64], y: &[f64], cp: &[f64], alpha_deg: f64) -> PressureForces {
-    let n = x.len();
-    let (mut fx, mut fy, mut mz) = (0.0, 0.0, 0.0);
-    for i in 0..n {
-        let j = (i + 1) % n;
-        let (dx, dy) = (x[j] - x[i], y[j] - y[i]);
-        // Outward normal times length for a counter-clockwise contour: (dy, −dx).
-        let (nx, ny) = (dy, -dx);
-        let (pa, pb) = (cp[i], cp[j]);
-        let mean = 0.5 * (pa + pb);
-        fx -= mean * nx;
-        fy -= mean * ny;
-        // ∫ Cp r dξ over the segment for linear Cp: L[(2pa + pb) ra + (pa + 2pb) rb]/6.
-        let rx = ((2.0 * pa + pb) * (x[i] - 0.25) + (pa + 2.0 * pb) * (x[j] - 0.25)) / 6.0;
-        let ry = ((2.0 * pa + pb) * y[i] + (pa + 2.0 * pb) * y[j]) / 6.0;
-        // z-moment of dF = −Cp n dξ: r × dF = −(rx ny − ry nx).
-        mz -= rx * ny - ry * nx;
-    }
+    let (fx, fy, mz) = pressure_sums(x, y, cp, x.len());
     let a = alpha_deg.to_radians();
     PressureForces {
         cl: -fx * a.sin() + fy * a.cos(),
@@ -58,27 +42,34 @@ pub fn integrate_pressure(x: &[f64], y: &[f64], cp: &[f64], alpha_deg: f64) -> P
 /// −Cp·h with no counterpart in the far-wake momentum deficit; left out, the near-field
 /// breakdown cd_friction + cd_pressure accounts for the same flow as the far-wake drag.
 pub fn wetted_pressure_drag(x: &[f64], y: &[f64], cp: &[f64], alpha_deg: f64) -> f64 {
-    let closed = integrate_pressure(x, y, cp, alpha_deg).cd;
-    let n = x.len();
-    if n < 2 {
-        return closed;
-    }
-    closed
-        - segment_pressure_drag(
-            [x[n - 1], y[n - 1]],
-            [x[0], y[0]],
-            [cp[n - 1], cp[0]],
-            alpha_deg,
-        )
+    let (fx, fy, _) = pressure_sums(x, y, cp, x.len().saturating_sub(1));
+    let a = alpha_deg.to_radians();
+    fx * a.cos() + fy * a.sin()
 }
 
-/// Pressure drag of one straight segment from `a` to `b` of a counter-clockwise contour, with
-/// Cp linear between the values `cp` at its ends (the segment term of [`integrate_pressure`]).
-fn segment_pressure_drag(a: [f64; 2], b: [f64; 2], cp: [f64; 2], alpha_deg: f64) -> f64 {
-    let (nx, ny) = (b[1] - a[1], -(b[0] - a[0]));
-    let mean = 0.5 * (cp[0] + cp[1]);
-    let alpha = alpha_deg.to_radians();
-    -mean * nx * alpha.cos() - mean * ny * alpha.sin()
+/// Force (fx, fy) and z-moment about (0.25, 0) of the pressure on the first `segments`
+/// segments of the counter-clockwise contour (segment i runs from node i to node i + 1, the
+/// last one back to node 0), Cp linear along each (the exact segment integrals of
+/// [`integrate_pressure`]).
+fn pressure_sums(x: &[f64], y: &[f64], cp: &[f64], segments: usize) -> (f64, f64, f64) {
+    let n = x.len();
+    let (mut fx, mut fy, mut mz) = (0.0, 0.0, 0.0);
+    for i in 0..segments {
+        let j = (i + 1) % n;
+        let (dx, dy) = (x[j] - x[i], y[j] - y[i]);
+        // Outward normal times length for a counter-clockwise contour: (dy, −dx).
+        let (nx, ny) = (dy, -dx);
+        let (pa, pb) = (cp[i], cp[j]);
+        let mean = 0.5 * (pa + pb);
+        fx -= mean * nx;
+        fy -= mean * ny;
+        // ∫ Cp r dξ over the segment for linear Cp: L[(2pa + pb) ra + (pa + 2pb) rb]/6.
+        let rx = ((2.0 * pa + pb) * (x[i] - 0.25) + (pa + 2.0 * pb) * (x[j] - 0.25)) / 6.0;
+        let ry = ((2.0 * pa + pb) * y[i] + (pa + 2.0 * pb) * y[j]) / 6.0;
+        // z-moment of dF = −Cp n dξ: r × dF = −(rx ny − ry nx).
+        mz -= rx * ny - ry * nx;
+    }
+    (fx, fy, mz)
 }
 
 /// Skin-friction drag of one side: ∫ τ_w (t·e∞) ds with τ_w/(½ρU∞²) = cf (ue/U∞)², cf based

@@ -65,7 +65,7 @@ impl CoupledProblem<'_> {
     /// Base weight of the integration rule of the interval into station k: backward Euler on
     /// the first interval of a side and of the wake (the start states are only approximate),
     /// the trapezoidal rule elsewhere (raised towards backward Euler where H changes fast).
-    pub(super) fn weight(&self, layout: &Layout, k: usize) -> f64 {
+    fn weight(&self, layout: &Layout, k: usize) -> f64 {
         let first = match layout.role[k] {
             Role::WakeFirst => true,
             Role::Interval => layout.role[k - 1] == Role::Start,
@@ -76,6 +76,12 @@ impl CoupledProblem<'_> {
         } else {
             0.5
         }
+    }
+
+    /// Weight of the integration rule of the interval into station k from shape factor `h_a`
+    /// to `h_b`: the base weight, raised towards backward Euler where H changes fast.
+    pub(super) fn interval_weight(&self, layout: &Layout, k: usize, h_a: f64, h_b: f64) -> f64 {
+        self.weight(layout, k).max(upwinded_weight(h_a, h_b))
     }
 
     /// Number of local unknowns of station k (besides its mass defect).
@@ -100,7 +106,6 @@ impl CoupledProblem<'_> {
         let (involved, _) = self.involved(layout, unknowns, k);
         let regime = |p: usize| unknowns.regime[involved[p]];
         let b = station_state(&vars[0], regime(0));
-        let w = self.weight(layout, k);
         let mut out = [0.0; MAX_EQUATIONS];
         let mut put = |r: &[f64]| out[..r.len()].copy_from_slice(r);
         match layout.role[k] {
@@ -132,7 +137,7 @@ impl CoupledProblem<'_> {
                 );
                 let merged = merged_wake_start(&upper, &lower);
                 let ds = layout.s[k] - self.wake_origin;
-                let w = w.max(upwinded_weight(merged.shape_factor, b.state.shape_factor));
+                let w = self.interval_weight(layout, k, merged.shape_factor, b.state.shape_factor);
                 put(&turbulent_interval_residual(
                     ctx, &merged, &b.state, ds, w, true,
                 ));
@@ -140,7 +145,8 @@ impl CoupledProblem<'_> {
             Role::Interval => {
                 let a = station_state(&vars[1], regime(1));
                 let (sa, sb) = (layout.s[k - 1], layout.s[k]);
-                let upwinded = w.max(upwinded_weight(a.state.shape_factor, b.state.shape_factor));
+                let upwinded =
+                    self.interval_weight(layout, k, a.state.shape_factor, b.state.shape_factor);
                 match (regime(1), regime(0)) {
                     (Regime::Laminar, Regime::Laminar) => {
                         put(&laminar_interval_residual(ctx, &a, &b, sb - sa, upwinded));

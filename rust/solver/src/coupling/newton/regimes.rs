@@ -8,8 +8,7 @@
 //! reached the critical value (or that lies past the trip) pulls transition up to it.
 
 use crate::boundary_layer::intervals::{
-    laminar_interval_residual, transition_point, transition_shape_factor, upwinded_weight,
-    StationState,
+    laminar_interval_residual, transition_point, transition_shape_factor, StationState,
 };
 use crate::boundary_layer::lag_entrainment::turbulent_start;
 use crate::boundary_layer::local_newton::{solve, NewtonOptions};
@@ -30,21 +29,10 @@ const TRAILING_EDGE_FRACTION_SLACK: f64 = 0.75;
 const UNSETTLED_N_MARGIN: f64 = 1.0;
 
 impl CoupledProblem<'_> {
-    /// Makes station k turbulent with the start state of a transition from its own state.
+    /// Makes station k turbulent with the turbulent start of its own (laminar) state.
     pub(super) fn make_turbulent(&self, unknowns: &mut Unknowns, ue: &[f64], k: usize) {
         let state = self.layer_state(unknowns, ue, k);
-        self.make_turbulent_from(unknowns, ue, k, &state);
-    }
-
-    /// Makes station k turbulent with the turbulent start of the laminar state `laminar`.
-    fn make_turbulent_from(
-        &self,
-        unknowns: &mut Unknowns,
-        ue: &[f64],
-        k: usize,
-        laminar: &LayerState,
-    ) {
-        let start = turbulent_start(laminar, self.ctx.reynolds);
+        let start = turbulent_start(&state, self.ctx.reynolds);
         unknowns.regime[k] = Regime::Turbulent;
         unknowns.third[k] = start.entrainment;
         unknowns.ln_theta[k] = start.theta.ln();
@@ -223,7 +211,6 @@ impl CoupledProblem<'_> {
         t: usize,
         guess: &LayerState,
     ) -> Option<LayerState> {
-        let base_weight = self.weight(layout, t);
         let ue_t = guess.edge_velocity;
         let state_of = |x: &[f64; 2]| StationState {
             state: LayerState {
@@ -236,7 +223,7 @@ impl CoupledProblem<'_> {
         };
         let residual = |x: &[f64; 2]| {
             let b = state_of(x);
-            let w = base_weight.max(upwinded_weight(a.state.shape_factor, x[1]));
+            let w = self.interval_weight(layout, t, a.state.shape_factor, x[1]);
             let r = laminar_interval_residual(&self.ctx, a, &b, ds, w);
             [r[0], r[1]]
         };
