@@ -46,11 +46,6 @@ def test_tripped_cd_at_zero_lift_re6e6(naca0012):
     assert polar["cd"][0] == pytest.approx(published, rel=0.10)
 
 
-@pytest.mark.xfail(
-    reason="known miss, docs/validation.md: slope 0.1147/deg over 0-8 deg, +6.7 % on McCroskey's "
-    "0.1075 (the viscous lift loss is about half the measured one)",
-    strict=False,
-)
 def test_tripped_lift_slope_re6e6(naca0012):
     # Ladson NASA TM-4074 tripped runs: 0.1065–0.1078 per degree over 0°–10° [C from the table];
     # McCroskey AGARD CP-429 (1988) fit: 0.1075 per degree at Re 6e6, M 0.15. Within 5 %.

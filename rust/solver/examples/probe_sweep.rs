@@ -1,9 +1,17 @@
 //! Developer probe: one viscous α sweep with timing, for diagnosing the coupled solution.
 //! `cargo run --release -p wakerank-solver --example probe_sweep -- 0012 6e6 -6 12 1 [trip]`
+//! Environment: `WR_PANELS` (default 160), `WR_MACH` (default 0), `WR_CLOSED_TE=1` for the
+//! closed-trailing-edge NACA variant,
+//! `WR_NO_CURVATURE=1` to leave the wake-curvature sheet out.
 
 use std::time::Instant;
 use wakerank_solver::coupling::{analyze_viscous, ViscousSettings};
 use wakerank_solver::geometry::{coordinates::parse_coordinates, naca};
+
+/// A numeric environment variable, or `default` when unset.
+fn env_or(name: &str, default: f64) -> f64 {
+    std::env::var(name).map_or(default, |v| v.parse().unwrap())
+}
 
 fn main() {
     let args: Vec<String> = std::env::args().collect();
@@ -16,7 +24,12 @@ fn main() {
     let section = if code.ends_with(".txt") {
         parse_coordinates(&std::fs::read_to_string(code).unwrap(), code).unwrap()
     } else {
-        naca::from_designation(code, false, 200).unwrap()
+        naca::from_designation(
+            code,
+            std::env::var("WR_CLOSED_TE").is_ok_and(|v| v == "1"),
+            200,
+        )
+        .unwrap()
     };
     let mut alphas = Vec::new();
     let mut a = a0;
@@ -27,6 +40,9 @@ fn main() {
     let settings = ViscousSettings {
         trip_upper: trip,
         trip_lower: trip,
+        panels: env_or("WR_PANELS", 160.0) as usize,
+        mach: env_or("WR_MACH", 0.0),
+        wake_curvature: std::env::var("WR_NO_CURVATURE").is_err(),
         ..ViscousSettings::new(re)
     };
     let t = Instant::now();

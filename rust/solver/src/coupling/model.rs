@@ -8,10 +8,16 @@
 
 use crate::error::Result;
 use crate::geometry::Section;
-use crate::inviscid::PanelSolver;
+use crate::inviscid::{smoothed_panel_curvature, wake_node_turning, PanelSolver};
 use crate::linalg::DenseMatrix;
 
 use super::settings::ViscousSettings;
+
+/// Largest speed jump of the wake-curvature sheet, in free-stream units. The thin-layer
+/// theory behind it needs κ(δ* + θ) ≪ 1; converged attached and separated cases stay below a
+/// few hundredths, and the bound keeps a wild first iterate (an edge speed near zero at the
+/// trailing edge, a layer of a tenth of the chord) from inducing speeds of order one.
+pub const MAX_CURVATURE_JUMP: f64 = 0.05;
 
 /// The panel solver of one re-panelled section, shared by every angle of a sweep.
 pub(crate) struct SectionModel {
@@ -52,6 +58,12 @@ pub(crate) struct CaseModel {
     pub q_inviscid: Vec<f64>,
     /// ∂q_i/∂m_j with both in the convention above (sign-adjusted from the panel method's).
     pub influence: DenseMatrix,
+    /// ∂q_i/∂γ_k: speeds (convention above) per unit clockwise vortex strength on wake panel k
+    /// (`inviscid::wake_vorticity`). Empty columns when wake curvature is not modelled.
+    pub wake_vorticity: DenseMatrix,
+    /// Turning of the wake at each wake node (positive to the left); empty when wake curvature
+    /// is not modelled.
+    pub wake_turning: Vec<f64>,
 }
 
 impl CaseModel {
@@ -70,6 +82,14 @@ impl CaseModel {
         y.extend_from_slice(&wake.y);
         let q_inviscid = solver.edge_velocity(alpha_deg, &wake);
         let influence = solver.mass_defect_influence(&wake);
+        let (wake_vorticity, wake_turning) = if settings.wake_curvature {
+            (
+                solver.wake_vorticity_influence(&wake),
+                wake_node_turning(&wake),
+            )
+        } else {
+            (DenseMatrix::zeros(x.len(), 0), Vec::new())
+        };
         Ok(CaseModel {
             alpha_deg,
             n_surface,
@@ -79,6 +99,8 @@ impl CaseModel {
             wake_s: wake.s.clone(),
             q_inviscid,
             influence,
+            wake_vorticity,
+            wake_turning,
         })
     }
 
@@ -123,6 +145,43 @@ impl CaseModel {
             .zip(induced)
             .map(|(a, b)| a + b)
             .collect()
+    }
+
+    /// Coefficients c_k of the wake-curvature vortex sheet, γ_k = c_k·(f_k + f_{k+1}), for a
+    /// wake whose nodes carry `defect_flux` f = ue(δ* + θ) (the merged trailing-edge node
+    /// first): c_k = −½κ̄_k, the curvature of panel k smoothed over the trailing-edge thickness
+    /// δ* + θ = f₀/ue_TE (`inviscid::wake_vorticity`). Empty when wake curvature is not modelled.
+    pub fn curvature_coefficients(
+        &self,
+        defect_flux: &[f64],
+        trailing_edge_speed: f64,
+    ) -> Vec<f64> {
+        if self.wake_turning.len() < 2 {
+            return Vec::new();
+        }
+        let thickness = defect_flux[0] / trailing_edge_speed.max(1e-6);
+        smoothed_panel_curvature(&self.wake_s, &self.wake_turning, thickness)
+            .into_iter()
+            .map(|kappa| -0.5 * kappa)
+            .collect()
+    }
+
+    /// Node speeds (convention above) of the wake-curvature sheet with coefficients
+    /// `coefficients` ([`Self::curvature_coefficients`]) and wake-node `defect_flux`; each
+    /// panel's jump is limited to [`MAX_CURVATURE_JUMP`].
+    pub fn curvature_speeds(&self, coefficients: &[f64], defect_flux: &[f64]) -> Vec<f64> {
+        if coefficients.is_empty() {
+            return vec![0.0; self.n_total()];
+        }
+        let strengths: Vec<f64> = coefficients
+            .iter()
+            .enumerate()
+            .map(|(k, c)| {
+                (c * (defect_flux[k] + defect_flux[k + 1]))
+                    .clamp(-MAX_CURVATURE_JUMP, MAX_CURVATURE_JUMP)
+            })
+            .collect();
+        self.wake_vorticity.matvec(&strengths)
     }
 
     /// ∂ue_i/∂m_j in boundary-layer signs.

@@ -45,6 +45,9 @@ pub struct ViscousSettings {
     pub wake_length_chords: f64,
     /// Number of wake nodes (default: a quarter of the panel count, at least 24).
     pub wake_nodes: Option<usize>,
+    /// Model the pressure jump across the curved wake (default true; `inviscid::wake_vorticity`).
+    /// Off gives the first-order displacement interaction alone, for comparisons.
+    pub wake_curvature: bool,
 }
 
 impl ViscousSettings {
@@ -62,6 +65,7 @@ impl ViscousSettings {
             tolerance: 1.0e-4,
             wake_length_chords: 5.0,
             wake_nodes: None,
+            wake_curvature: true,
         }
     }
 

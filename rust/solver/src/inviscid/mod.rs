@@ -35,10 +35,12 @@ pub mod compressibility;
 pub(crate) mod influence;
 mod transpiration;
 pub mod wake;
+mod wake_vorticity;
 
 pub use crate::linalg::DenseMatrix;
 pub use transpiration::TranspirationSolution;
 pub use wake::Wake;
+pub use wake_vorticity::{smoothed_panel_curvature, wake_node_turning};
 
 use crate::error::{Result, SolverError};
 use crate::geometry::Section;

@@ -47,12 +47,12 @@ pub struct TranspirationSolution {
 
 /// Influence data of a wake: panels, the points where speeds are evaluated and the weights
 /// that average them over each node's cell.
-struct WakeData {
-    panels: Panels,
+pub(super) struct WakeData {
+    pub(super) panels: Panels,
     /// Evaluation points on the wake panels: (x, y, panel).
-    points: Vec<(f64, f64, usize)>,
+    pub(super) points: Vec<(f64, f64, usize)>,
     /// For each wake node: (point, weight) pairs whose sum is the node's speed.
-    to_nodes: Vec<Vec<(usize, f64)>>,
+    pub(super) to_nodes: Vec<Vec<(usize, f64)>>,
 }
 
 /// Gauss–Legendre abscissae of the two-point rule on [0, 1] (weights ½ each).
@@ -67,7 +67,7 @@ impl WakeData {
     /// values did not, so an odd–even pattern of the wake mass defect hardly changed them and the
     /// coupled solution carried it undamped behind the trailing edge (docs/validation.md). A wake
     /// of fewer than two nodes has no panels and zero speeds.
-    fn new(wake: &Wake) -> Self {
+    pub(super) fn new(wake: &Wake) -> Self {
         let n = wake.x.len().min(wake.y.len()).min(wake.s.len());
         let panels = Panels::new(&wake.x[..n], &wake.y[..n]);
         let count = n.saturating_sub(1);
@@ -119,7 +119,7 @@ impl WakeData {
     }
 
     /// Node rows from rows at the evaluation points (a row per node, same columns).
-    fn to_node_rows(&self, point_rows: &DenseMatrix, columns: usize) -> DenseMatrix {
+    pub(super) fn to_node_rows(&self, point_rows: &DenseMatrix, columns: usize) -> DenseMatrix {
         let mut rows = DenseMatrix::zeros(self.to_nodes.len(), columns);
         for (i, parts) in self.to_nodes.iter().enumerate() {
             let out = rows.row_mut(i);
@@ -205,7 +205,7 @@ impl PanelSolver {
     /// Tangential velocity (along the wake panel) at each wake node, averaged over its cell, per
     /// unit γ at each surface node (`vortex`, Nw_nodes × (N + 1)) and per unit σ on each surface
     /// then wake panel (`source`, Nw_nodes × (Np + Nw)).
-    fn wake_tangential_rows(&self, wake: &WakeData) -> (DenseMatrix, DenseMatrix) {
+    pub(super) fn wake_tangential_rows(&self, wake: &WakeData) -> (DenseMatrix, DenseMatrix) {
         let (n, np, nw) = (
             self.panels.nodes(),
             self.panels.count(),

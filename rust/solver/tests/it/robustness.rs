@@ -16,6 +16,11 @@ fn report(label: &str, rows: &[(String, f64, wakerank_solver::coupling::ViscousR
             row.alpha_deg, row.iterations, row.residual
         );
     }
+    let outer_only = rows
+        .iter()
+        .filter(|r| r.2.converged && r.2.residual > 1e-8)
+        .count();
+    println!("  of the converged, {outer_only} by the outer iteration alone (residual > 1e-8)");
     let share = converged as f64 / rows.len() as f64;
     println!(
         "{label}: {converged} of {} converge ({:.1} %)",

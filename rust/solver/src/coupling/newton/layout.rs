@@ -58,6 +58,9 @@ pub(crate) struct Layout {
     /// Surface nodes left out at the stagnation point: (node, first station of its side,
     /// m_node / m_station).
     pub near_stagnation: Vec<(usize, usize, f64)>,
+    /// The influence matrix the Newton step is solved with when it differs from `influence`
+    /// (with the wake-curvature sheet's mass-defect terms, `newton::curvature`).
+    pub jacobian_influence: Option<DenseMatrix>,
 }
 
 /// A side's first node is left out when it is closer to the stagnation point than this
@@ -77,9 +80,33 @@ fn trim_near_stagnation(side: &mut SideNodes) -> Option<(usize, f64)> {
     }
 }
 
+/// Edge speeds of the stations at `nodes` without their mass defects: the inviscid speeds plus
+/// `speed_offset`, signed positive downstream.
+fn base_edge_speeds(
+    case: &CaseModel,
+    nodes: &[usize],
+    stag: usize,
+    speed_offset: &[f64],
+) -> Vec<f64> {
+    nodes
+        .iter()
+        .map(|&node| {
+            let extra = speed_offset.get(node).copied().unwrap_or(0.0);
+            case.edge_sign(node, stag) * (case.q_inviscid[node] + extra)
+        })
+        .collect()
+}
+
 impl Layout {
-    /// Builds the layout of `split` for the case, with trips at x/c `trips` (upper, lower).
-    pub(crate) fn new(case: &CaseModel, mut split: SurfaceSplit, trips: [Option<f64>; 2]) -> Self {
+    /// Builds the layout of `split` for the case, with trips at x/c `trips` (upper, lower) and
+    /// the node speeds `speed_offset` (coupling convention, e.g. of the wake-curvature sheet)
+    /// added to the inviscid ones.
+    pub(crate) fn new(
+        case: &CaseModel,
+        mut split: SurfaceSplit,
+        trips: [Option<f64>; 2],
+        speed_offset: &[f64],
+    ) -> Self {
         let ns = case.n_surface;
         let stag = split.stagnation.node;
         // Nodes the split already left out (on the stagnation point) and those trimmed here.
@@ -119,10 +146,7 @@ impl Layout {
         }
         let wake = lower.end..nodes.len();
         let k_total = nodes.len();
-        let ue_inviscid = nodes
-            .iter()
-            .map(|&node| case.edge_sign(node, stag) * case.q_inviscid[node])
-            .collect();
+        let ue_inviscid = base_edge_speeds(case, &nodes, stag, speed_offset);
         let te = [upper.end - 1, lower.end - 1];
         let near_stagnation: Vec<(usize, usize, f64)> = left_out
             .into_iter()
@@ -163,7 +187,20 @@ impl Layout {
             ue_inviscid,
             influence,
             near_stagnation,
+            jacobian_influence: None,
         }
+    }
+
+    /// Replaces the speeds added to the inviscid ones by `speed_offset` (see [`Layout::new`]).
+    pub(crate) fn set_speed_offset(&mut self, case: &CaseModel, speed_offset: &[f64]) {
+        let stag = self.split.stagnation.node;
+        self.ue_inviscid = base_edge_speeds(case, &self.nodes, stag, speed_offset);
+    }
+
+    /// The influence matrix of the Newton step: `jacobian_influence` when set, else
+    /// `influence`.
+    pub(crate) fn step_influence(&self) -> &DenseMatrix {
+        self.jacobian_influence.as_ref().unwrap_or(&self.influence)
     }
 
     /// Number of stations.

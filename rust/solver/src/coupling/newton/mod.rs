@@ -14,6 +14,7 @@
 //! step, and each step is relaxed so that no variable changes by more than a set fraction,
 //! then backtracked until the residual falls.
 
+mod curvature;
 mod elimination;
 mod equations;
 mod layout;
@@ -129,6 +130,9 @@ pub(crate) struct CoupledProblem<'a> {
     settings: &'a ViscousSettings,
     ctx: EquationContext<'static>,
     wake_origin: f64,
+    /// Node speeds of the wake-curvature sheet at the latest iterate (coupling convention),
+    /// added to the inviscid speeds of every layout (`curvature`).
+    speed_offset: std::cell::RefCell<Vec<f64>>,
 }
 
 impl<'a> CoupledProblem<'a> {
@@ -143,6 +147,7 @@ impl<'a> CoupledProblem<'a> {
                 amplification: OrrSommerfeldEnvelope::shipped(),
             },
             wake_origin: case.wake_s.first().copied().unwrap_or(0.0),
+            speed_offset: std::cell::RefCell::new(vec![0.0; case.n_total()]),
         }
     }
 
@@ -154,6 +159,7 @@ impl<'a> CoupledProblem<'a> {
             .map(|n| start.node_mass_defect.get(n).copied().unwrap_or(0.0))
             .collect();
         let guess_stag = start.stagnation_node.min(ns.saturating_sub(2));
+        self.speed_offset.replace(vec![0.0; case.n_total()]);
         let mut layout = self.layout_for(&m_start, guess_stag)?;
         let mut unknowns = self.map_state(&layout, start);
         // The mapped mass defects move the stagnation point a little: settle the split.
@@ -175,8 +181,11 @@ impl<'a> CoupledProblem<'a> {
         // they reduce the residual fast enough.
         let mut frozen: Option<Factorisation> = None;
         let (mut lowest, mut lowest_at) = (f64::INFINITY, 0);
+        // Each side's last move of transition between intervals (`update_regimes`).
+        let mut last_moves = [None; 2];
         for iteration in 1..=MAX_NEWTON_ITERATIONS.min(self.settings.max_iterations.max(1)) {
             iterations = iteration;
+            self.update_curvature_speeds(&mut layout, &unknowns);
             let ue = layout.edge_speeds(&unknowns.m);
             let lins: Option<Vec<_>> = frozen.is_none().then(|| {
                 (0..layout.len())
@@ -209,7 +218,7 @@ impl<'a> CoupledProblem<'a> {
                 break;
             }
             let settled = residual < REGIME_MOVE_RESIDUAL;
-            let moved = self.update_regimes(&layout, &mut unknowns, &ue, settled);
+            let moved = self.update_regimes(&layout, &mut unknowns, &ue, settled, &mut last_moves);
             if !moved && residual < NEWTON_TOLERANCE {
                 converged = true;
                 break;
@@ -222,7 +231,7 @@ impl<'a> CoupledProblem<'a> {
             }
             let chord = frozen.is_some();
             if let Some(l) = &lins {
-                frozen = Factorisation::new(l, &layout.influence);
+                frozen = Factorisation::new(l, layout.step_influence());
             }
             let Some(step) = frozen.as_ref().and_then(|f| f.corrections(&residuals)) else {
                 if chord {
@@ -286,12 +295,15 @@ impl<'a> CoupledProblem<'a> {
     fn layout_for(&self, m_full: &[f64], stag_guess: usize) -> Result<Layout> {
         let case = self.case;
         let ns = case.n_surface;
-        let q = case.speeds(m_full, stag_guess);
+        let offset = self.speed_offset.borrow();
+        let with_offset =
+            |q: Vec<f64>| -> Vec<f64> { q.iter().zip(offset.iter()).map(|(a, b)| a + b).collect() };
+        let q = with_offset(case.speeds(m_full, stag_guess));
         let stagnation = locate_stagnation(&q[..ns], &case.arc, &case.x[..ns], &case.y[..ns])?;
         let q = if stagnation.node == stag_guess {
             q
         } else {
-            case.speeds(m_full, stagnation.node)
+            with_offset(case.speeds(m_full, stagnation.node))
         };
         let stagnation = locate_stagnation(&q[..ns], &case.arc, &case.x[..ns], &case.y[..ns])?;
         let split = split_surface(stagnation, &case.arc);
@@ -299,6 +311,7 @@ impl<'a> CoupledProblem<'a> {
             case,
             split,
             [self.settings.trip_upper, self.settings.trip_lower],
+            &offset,
         ))
     }
 

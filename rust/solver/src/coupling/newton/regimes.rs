@@ -96,12 +96,20 @@ impl CoupledProblem<'_> {
     /// From a settled iterate (`settled`), when the laminar solution and the transition point
     /// are accurate, any point outside its interval moves; from an unsettled one only points
     /// well outside (the equations of a point several intervals away are meaningless).
+    ///
+    /// `last_moves` holds each side's last interval move as case nodes (from, to); a move that
+    /// would undo it is not made. Between two neighbouring intervals the discrete transition
+    /// point can have no consistent place — in the upstream interval it settles beyond its end,
+    /// in the downstream one before its start — and the iterate would move it to and fro for
+    /// ever; it stays instead in the interval it reached, just outside it, so its place is
+    /// uncertain by less than an interval.
     pub(super) fn update_regimes(
         &self,
         layout: &Layout,
         unknowns: &mut Unknowns,
         ue: &[f64],
         settled: bool,
+        last_moves: &mut [Option<(usize, usize)>; 2],
     ) -> bool {
         let mut moved = false;
         for (side, range) in [layout.upper.clone(), layout.lower.clone()]
@@ -120,7 +128,16 @@ impl CoupledProblem<'_> {
                 trip.is_some_and(|ts| ts <= layout.s[j] * (1.0 + 1e-12))
                     || (j > range.start && unknowns.third[j] >= self.ctx.n_critical + margin)
             });
+            // (Not when it would undo the side's last move one interval downstream.)
+            let early = early.filter(|&j| {
+                !(j + 1 == t
+                    && t < range.end
+                    && last_moves[side] == Some((layout.nodes[j], layout.nodes[t])))
+            });
             if let Some(j) = early {
+                if t < range.end {
+                    last_moves[side] = Some((layout.nodes[t], layout.nodes[j]));
+                }
                 self.transition_at(layout, unknowns, ue, range.clone(), j, t, trip);
                 moved = true;
                 continue;
@@ -147,7 +164,10 @@ impl CoupledProblem<'_> {
             } else {
                 slack
             };
-            if f < -slack && t - 1 > range.start {
+            let undoes =
+                |target: usize| last_moves[side] == Some((layout.nodes[target], layout.nodes[t]));
+            if f < -slack && t - 1 > range.start && !undoes(t - 1) {
+                last_moves[side] = Some((layout.nodes[t], layout.nodes[t - 1]));
                 let h_t = self.transition_shape(layout, unknowns, ue, t, f);
                 // One interval upstream: the station before becomes the transition station.
                 let ratio = (layout.s[t] - layout.s[t - 1]) / (layout.s[t - 1] - layout.s[t - 2]);
@@ -162,7 +182,10 @@ impl CoupledProblem<'_> {
                 unknowns.transition[t - 1] = Some([ln_theta, (1.0 + f * ratio).clamp(0.0, 1.0)]);
                 unknowns.transition[t] = None;
                 moved = true;
-            } else if f > 1.0 + downstream_slack {
+            } else if f > 1.0 + downstream_slack && !(t + 1 < range.end && undoes(t + 1)) {
+                if t + 1 < range.end {
+                    last_moves[side] = Some((layout.nodes[t], layout.nodes[t + 1]));
+                }
                 // One interval downstream (or off the trailing edge): station t turns laminar
                 // with the point's laminar state.
                 let a = self.station(unknowns, ue, t - 1);
