@@ -6,7 +6,7 @@
 
 use std::time::Instant;
 use wakerank_solver::coupling::{analyze_viscous, ViscousSettings};
-use wakerank_solver::geometry::{coordinates::parse_coordinates, naca};
+use wakerank_solver::geometry::{coordinates::parse_coordinates_normalised, naca};
 
 /// A numeric environment variable, or `default` when unset.
 fn env_or(name: &str, default: f64) -> f64 {
@@ -22,7 +22,7 @@ fn main() {
     let da: f64 = args.get(5).map_or(1.0, |s| s.parse().unwrap());
     let trip = args.get(6).map(|s| s.parse::<f64>().unwrap());
     let section = if code.ends_with(".txt") {
-        parse_coordinates(&std::fs::read_to_string(code).unwrap(), code).unwrap()
+        parse_coordinates_normalised(&std::fs::read_to_string(code).unwrap(), code, true).unwrap()
     } else {
         naca::from_designation(
             code,

@@ -13,9 +13,9 @@ use crate::linalg::DenseMatrix;
 
 use super::settings::ViscousSettings;
 
-/// Largest speed jump of the wake-curvature sheet, in free-stream units. The thin-layer
-/// theory behind it needs κ(δ* + θ) ≪ 1; converged attached and separated cases stay below a
-/// few hundredths, and the bound keeps a wild first iterate (an edge speed near zero at the
+/// Level at which the speed jump of the wake-curvature sheet saturates, in free-stream units.
+/// The thin-layer theory behind it needs κ(δ* + θ) ≪ 1; attached cases stay below a hundredth
+/// (where the saturation changes the jump by less than 1 %), and the bound keeps a wild first iterate (an edge speed near zero at the
 /// trailing edge, a layer of a tenth of the chord) from inducing speeds of order one.
 pub const MAX_CURVATURE_JUMP: f64 = 0.05;
 
@@ -167,21 +167,26 @@ impl CaseModel {
     }
 
     /// Node speeds (convention above) of the wake-curvature sheet with coefficients
-    /// `coefficients` ([`Self::curvature_coefficients`]) and wake-node `defect_flux`; each
-    /// panel's jump is limited to [`MAX_CURVATURE_JUMP`].
-    pub fn curvature_speeds(&self, coefficients: &[f64], defect_flux: &[f64]) -> Vec<f64> {
+    /// `coefficients` ([`Self::curvature_coefficients`]) and wake-node `defect_flux`, and each
+    /// panel's slope ∂γ_k/∂(f_k + f_{k+1}). Each jump saturates smoothly at
+    /// [`MAX_CURVATURE_JUMP`]: γ_k = J·tanh(c_k(f_k + f_{k+1})/J).
+    pub fn curvature_sheet(
+        &self,
+        coefficients: &[f64],
+        defect_flux: &[f64],
+    ) -> (Vec<f64>, Vec<f64>) {
         if coefficients.is_empty() {
-            return vec![0.0; self.n_total()];
+            return (vec![0.0; self.n_total()], Vec::new());
         }
-        let strengths: Vec<f64> = coefficients
+        let (strengths, slopes): (Vec<f64>, Vec<f64>) = coefficients
             .iter()
             .enumerate()
             .map(|(k, c)| {
-                (c * (defect_flux[k] + defect_flux[k + 1]))
-                    .clamp(-MAX_CURVATURE_JUMP, MAX_CURVATURE_JUMP)
+                let t = (c * (defect_flux[k] + defect_flux[k + 1]) / MAX_CURVATURE_JUMP).tanh();
+                (MAX_CURVATURE_JUMP * t, c * (1.0 - t * t))
             })
-            .collect();
-        self.wake_vorticity.matvec(&strengths)
+            .unzip();
+        (self.wake_vorticity.matvec(&strengths), slopes)
     }
 
     /// ∂ue_i/∂m_j in boundary-layer signs.

@@ -28,7 +28,7 @@ impl CoupledProblem<'_> {
             .collect();
         let te_speed = 0.5 * (ue[upper] + ue[lower]);
         let coefficients = case.curvature_coefficients(&defect_flux, te_speed);
-        let offset = case.curvature_speeds(&coefficients, &defect_flux);
+        let (offset, slopes) = case.curvature_sheet(&coefficients, &defect_flux);
         layout.set_speed_offset(case, &offset);
         self.speed_offset.replace(offset);
         // ∂ue_i/∂m_j of the sheet: station j's wake node w(j) appears in panels w − 1 and w.
@@ -46,10 +46,10 @@ impl CoupledProblem<'_> {
             for &(j, w) in &columns {
                 let mut d = 0.0;
                 if w >= 1 {
-                    d += response[w - 1] * coefficients[w - 1];
+                    d += response[w - 1] * slopes[w - 1];
                 }
-                if w < coefficients.len() {
-                    d += response[w] * coefficients[w];
+                if w < slopes.len() {
+                    d += response[w] * slopes[w];
                 }
                 row[j] += sign * d;
             }
