@@ -53,7 +53,7 @@ const CHORD_REDUCTION: f64 = 0.5;
 const MAX_NEWTON_ITERATIONS: usize = 60;
 /// Iterations without a new lowest residual after which the iteration gives up (a stalled
 /// iterate, typically pinned at a closure bound, does not recover; the caller's next start
-/// is a better use of the time).
+/// is a better use of the time). Counted afresh after each move of transition.
 const STALL_ITERATIONS: usize = 12;
 /// Largest shape factor the residuals are evaluated at (keeps a wild first iterate, with an
 /// edge speed near zero at the trailing edge, finite).
@@ -226,6 +226,9 @@ impl<'a> CoupledProblem<'a> {
             if moved {
                 // The moved regimes change the displacement, and with it the stagnation point.
                 frozen = None;
+                // A new discrete system: the stall count starts afresh from here (the blocked
+                // reversal in `update_regimes` keeps moves from cycling).
+                (lowest, lowest_at) = (f64::INFINITY, iteration);
                 layout = self.resplit(&layout, &mut unknowns)?;
                 continue;
             }
