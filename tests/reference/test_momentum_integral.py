@@ -26,17 +26,6 @@ _SLOW_WAKE = pytest.mark.xfail(
     "behind the trailing edge is 0.991 and θ there still 2.5 % above θ∞",
     strict=False,
 )
-_WAKE_SHEET_FORCE = pytest.mark.xfail(
-    reason="known miss, docs/validation.md: for NACA 4415 at Re 6e6 friction + pressure is 6.5 % "
-    "above the far-wake cd since the wake-curvature sheet (its force is not in the surface sum)",
-    strict=False,
-)
-NEAR_FIELD_CASES = [
-    ATTACHED_CASES[0],
-    ATTACHED_CASES[1],
-    ATTACHED_CASES[2],
-    pytest.param(*ATTACHED_CASES[3], marks=_WAKE_SHEET_FORCE),
-]
 WAKE_CASES = [
     ATTACHED_CASES[0],
     ATTACHED_CASES[1],
@@ -65,7 +54,7 @@ def test_squire_young_agrees_with_far_wake(code, alpha, reynolds):
     assert row["cd_squire_young"] == pytest.approx(row["cd"], rel=0.05)
 
 
-@pytest.mark.parametrize(("code", "alpha", "reynolds"), NEAR_FIELD_CASES)
+@pytest.mark.parametrize(("code", "alpha", "reynolds"), ATTACHED_CASES)
 def test_friction_plus_pressure_agrees_with_far_wake(code, alpha, reynolds):
     row = wr.analyze(wr.Section.naca(code), alpha_deg=alpha, reynolds=reynolds).row(0, named=True)
     assert row["converged"]
