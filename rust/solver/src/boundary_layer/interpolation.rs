@@ -62,40 +62,68 @@ impl MonotoneCubic {
         })
     }
 
-    /// Value at `t`.
+    /// Value at `t` (the same value as [`Self::value_and_derivative`], without the derivative).
     pub fn value(&self, t: f64) -> f64 {
-        self.value_and_derivative(t).0
+        match self.locate(t) {
+            Located::Outside(v, _) => v,
+            Located::Inside { i, h, s } => self.cubic_value(i, h, s),
+        }
     }
 
-    /// Value and first derivative at `t` (the derivative is continuous everywhere).
-    pub fn value_and_derivative(&self, t: f64) -> (f64, f64) {
+    /// Where `t` falls: beyond an end (the extension's value and slope) or in interval `i` of
+    /// length `h` at fraction `s`.
+    #[inline]
+    fn locate(&self, t: f64) -> Located {
         let n = self.x.len();
         if t.is_nan() {
             // Never index with NaN: the caller sees NaN and flags its result.
-            return (f64::NAN, f64::NAN);
+            return Located::Outside(f64::NAN, f64::NAN);
         }
         if t <= self.x[0] {
-            return saturating(self.y[0], self.slope[0], self.low_width, t - self.x[0]);
+            let (v, d) = saturating(self.y[0], self.slope[0], self.low_width, t - self.x[0]);
+            return Located::Outside(v, d);
         }
         if t >= self.x[n - 1] {
-            return saturating(
+            let (v, d) = saturating(
                 self.y[n - 1],
                 self.slope[n - 1],
                 self.high_width,
                 t - self.x[n - 1],
             );
+            return Located::Outside(v, d);
         }
         let i = self.x.partition_point(|&xi| xi <= t) - 1;
         let h = self.x[i + 1] - self.x[i];
-        let s = (t - self.x[i]) / h;
+        Located::Inside {
+            i,
+            h,
+            s: (t - self.x[i]) / h,
+        }
+    }
+
+    /// The Hermite cubic of interval `i` (length `h`) at fraction `s`.
+    #[inline]
+    fn cubic_value(&self, i: usize, h: f64, s: f64) -> f64 {
         let (y0, y1) = (self.y[i], self.y[i + 1]);
         let (m0, m1) = (self.slope[i] * h, self.slope[i + 1] * h);
         let s2 = s * s;
         let s3 = s2 * s;
-        let value = (2.0 * s3 - 3.0 * s2 + 1.0) * y0
+        (2.0 * s3 - 3.0 * s2 + 1.0) * y0
             + (s3 - 2.0 * s2 + s) * m0
             + (-2.0 * s3 + 3.0 * s2) * y1
-            + (s3 - s2) * m1;
+            + (s3 - s2) * m1
+    }
+
+    /// Value and first derivative at `t` (the derivative is continuous everywhere).
+    pub fn value_and_derivative(&self, t: f64) -> (f64, f64) {
+        let (i, h, s) = match self.locate(t) {
+            Located::Outside(v, d) => return (v, d),
+            Located::Inside { i, h, s } => (i, h, s),
+        };
+        let value = self.cubic_value(i, h, s);
+        let (y0, y1) = (self.y[i], self.y[i + 1]);
+        let (m0, m1) = (self.slope[i] * h, self.slope[i + 1] * h);
+        let s2 = s * s;
         let derivative = ((6.0 * s2 - 6.0 * s) * y0
             + (3.0 * s2 - 4.0 * s + 1.0) * m0
             + (-6.0 * s2 + 6.0 * s) * y1
@@ -108,6 +136,14 @@ impl MonotoneCubic {
     pub fn range(&self) -> (f64, f64) {
         (self.x[0], self.x[self.x.len() - 1])
     }
+}
+
+/// Where an abscissa falls in the table (see `MonotoneCubic::locate`).
+enum Located {
+    /// Beyond an end: the extension's value and slope.
+    Outside(f64, f64),
+    /// In interval `i` of length `h`, at fraction `s` of it.
+    Inside { i: usize, h: f64, s: f64 },
 }
 
 fn saturating(v: f64, d: f64, w: f64, dx: f64) -> (f64, f64) {
