@@ -16,8 +16,9 @@ use super::settings::ViscousSettings;
 /// Level at which the speed jump of the wake-curvature sheet saturates, in free-stream units.
 /// The thin-layer theory behind it needs κ(δ* + θ) ≪ 1; attached cases stay near 0.01–0.02
 /// (NACA 0012 tripped at 8°, Re 6e6: 0.016, where the saturation lowers the jump by 0.9 %; a
-/// thick low-Reynolds-number wake reaches 0.05), and the bound keeps a wild first iterate (an edge speed near zero at the
-/// trailing edge, a layer of a tenth of the chord) from inducing speeds of order one.
+/// thick low-Reynolds-number wake reaches 0.05), and the bound keeps a wild first iterate (an
+/// edge speed near zero at the trailing edge, a layer of a tenth of the chord) from inducing
+/// speeds of order one.
 pub const MAX_CURVATURE_JUMP: f64 = 0.1;
 
 /// The panel solver of one re-panelled section, shared by every angle of a sweep.

@@ -55,6 +55,19 @@ pub(super) struct WakeData {
     pub(super) to_nodes: Vec<Vec<(usize, f64)>>,
 }
 
+/// A point where the panel system states a condition on the normal velocity (see
+/// `PanelSolver::condition_points`).
+pub(super) struct ConditionPoint {
+    pub(super) x: f64,
+    pub(super) y: f64,
+    /// The velocity component the condition sets (the outward normal, or the probe direction).
+    pub(super) direction: (f64, f64),
+    /// The panel the point lies on (its principal value is used there).
+    pub(super) on_panel: Option<usize>,
+    /// Row of the system.
+    pub(super) row: usize,
+}
+
 /// Gauss–Legendre abscissae of the two-point rule on [0, 1] (weights ½ each).
 const GAUSS_TWO_POINT: [f64; 2] = [0.211_324_865_405_187_1, 0.788_675_134_594_812_9];
 
@@ -147,6 +160,34 @@ impl PanelSolver {
             .collect()
     }
 
+    /// The points where the panel system states its conditions, with the row of each: tangency
+    /// at the panel midpoints (rows 0..N − 1, on their own panel), then the interior rest
+    /// condition at its probe (row N) when it is active. Row N − 1, the Kutta condition, has no
+    /// point.
+    pub(super) fn condition_points(&self) -> Vec<ConditionPoint> {
+        let (n, np) = (self.panels.nodes(), self.panels.count());
+        let control = self.interior();
+        let mut points: Vec<ConditionPoint> = (0..np)
+            .map(|i| ConditionPoint {
+                x: self.panels.mx[i],
+                y: self.panels.my[i],
+                direction: self.panels.normal(i),
+                on_panel: Some(i),
+                row: i,
+            })
+            .collect();
+        if control.active {
+            points.push(ConditionPoint {
+                x: control.probe.0,
+                y: control.probe.1,
+                direction: control.direction,
+                on_panel: None,
+                row: n,
+            });
+        }
+        points
+    }
+
     /// Normal velocity at each surface collocation point per unit σ on every surface panel and
     /// then every wake panel (rows: N; the Kutta row is zero). The self term is the one-sided
     /// value −σ/2 on the fluid-free inner side, which keeps the interior at rest.
@@ -160,24 +201,14 @@ impl PanelSolver {
         let mut scratch = Scratch::default();
         let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
         let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
-        let control = self.interior();
-        for i in 0..=np {
-            // Rows 0..np: tangency at the midpoints; row np (Kutta) stays zero; row n: the
-            // interior rest condition at the probe.
-            let (px, py, (nx, ny), on) = if i < np {
-                (
-                    self.panels.mx[i],
-                    self.panels.my[i],
-                    self.panels.normal(i),
-                    Some(i),
-                )
-            } else {
-                (control.probe.0, control.probe.1, control.direction, None)
-            };
-            if i == np && !control.active {
-                break;
-            }
-            let row_index = if i < np { i } else { n };
+        for point in self.condition_points() {
+            let ConditionPoint {
+                x: px,
+                y: py,
+                direction: (nx, ny),
+                on_panel: on,
+                row: row_index,
+            } = point;
             let on_body = Coefficients {
                 vortex: None,
                 source: Some((&mut su, &mut sv)),
@@ -192,7 +223,7 @@ impl PanelSolver {
             for k in 0..np {
                 row[k] = su[k] * nx + sv[k] * ny;
             }
-            if i < np {
+            if let Some(i) = on {
                 row[i] -= 0.5;
             }
             for k in 0..nw {

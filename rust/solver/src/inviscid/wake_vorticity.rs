@@ -81,11 +81,7 @@ impl PanelSolver {
     /// (γ₀ + γ_{N−1} = γ_w(0), module documentation).
     pub fn wake_vorticity_influence(&self, wake: &Wake) -> DenseMatrix {
         let data = WakeData::new(wake);
-        let (n, np, nw) = (
-            self.panels.nodes(),
-            self.panels.count(),
-            data.panels.count(),
-        );
+        let (n, nw) = (self.panels.nodes(), data.panels.count());
         let nodes = data.to_nodes.len();
         let mut out = DenseMatrix::zeros(n + nodes, nw);
         if nw == 0 {
@@ -97,21 +93,8 @@ impl PanelSolver {
         let mut rhs = DenseMatrix::zeros(nw, n + 1);
         let mut scratch = Scratch::default();
         let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
-        let control = self.interior();
-        for i in 0..=np {
-            if i == np && !control.active {
-                break;
-            }
-            let (px, py, (nx, ny), row_index) = if i < np {
-                (
-                    self.panels.mx[i],
-                    self.panels.my[i],
-                    self.panels.normal(i),
-                    i,
-                )
-            } else {
-                (control.probe.0, control.probe.1, control.direction, n)
-            };
+        for point in self.condition_points() {
+            let (px, py, (nx, ny), row_index) = (point.x, point.y, point.direction, point.row);
             let coefficients = Coefficients {
                 vortex: None,
                 source: Some((&mut wu, &mut wv)),
