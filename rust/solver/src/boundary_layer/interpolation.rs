@@ -17,7 +17,16 @@ pub struct MonotoneCubic {
     slope: Vec<f64>,
     low_width: f64,
     high_width: f64,
+    /// Index of the interval holding the lower edge of each of `BUCKETS_PER_NODE`·n equal
+    /// buckets over the table: a lookup starts there instead of bisecting.
+    bucket_start: Vec<usize>,
+    /// Buckets per unit of x.
+    bucket_scale: f64,
 }
+
+/// Equal-width buckets per table node for the interval lookup (our choice: about one node per
+/// bucket for the closure tables' moderately graded abscissae).
+const BUCKETS_PER_NODE: usize = 2;
 
 impl MonotoneCubic {
     /// Builds the interpolant through (x, y); x strictly increasing, at least two points.
@@ -53,12 +62,22 @@ impl MonotoneCubic {
         };
         let low_width = width(y[0], slope[0], -1.0);
         let high_width = width(y[n - 1], slope[n - 1], 1.0);
+        let buckets = BUCKETS_PER_NODE * n;
+        let bucket_scale = buckets as f64 / (x[n - 1] - x[0]);
+        let bucket_start = (0..buckets)
+            .map(|b| {
+                let edge = x[0] + b as f64 / bucket_scale;
+                x.partition_point(|&xi| xi <= edge).clamp(1, n - 1) - 1
+            })
+            .collect();
         Ok(Self {
             x,
             y,
             slope,
             low_width,
             high_width,
+            bucket_start,
+            bucket_scale,
         })
     }
 
@@ -92,7 +111,17 @@ impl MonotoneCubic {
             );
             return Located::Outside(v, d);
         }
-        let i = self.x.partition_point(|&xi| xi <= t) - 1;
+        // The largest i with x[i] ≤ t (x[0] < t < x[n − 1] here): from the bucket's start, then
+        // a step or two either way (the steps back guard against rounding of the bucket index).
+        let bucket =
+            (((t - self.x[0]) * self.bucket_scale) as usize).min(self.bucket_start.len() - 1);
+        let mut i = self.bucket_start[bucket];
+        while i > 0 && self.x[i] > t {
+            i -= 1;
+        }
+        while self.x[i + 1] <= t {
+            i += 1;
+        }
         let h = self.x[i + 1] - self.x[i];
         Located::Inside {
             i,
@@ -230,6 +259,36 @@ mod tests {
         assert!(far < 0.0 && far > -0.5, "{far}");
         let low = f.value(-1e6);
         assert!(low.is_finite() && low > -1.0 - 10.0 * 0.5 - 1e-12);
+    }
+
+    #[test]
+    fn bucket_lookup_finds_the_bisection_interval() {
+        // Strongly graded abscissae; values and slopes at many points equal those of the
+        // interval found by bisection (the cubic is evaluated on the same interval).
+        let x: Vec<f64> = (0..40)
+            .map(|k| (k as f64 / 39.0).powi(3) * 10.0 - 1.0)
+            .collect();
+        let y: Vec<f64> = x.iter().map(|v| v.sin()).collect();
+        let f = MonotoneCubic::new(x.clone(), y, 1.0).unwrap();
+        for k in 0..5000 {
+            let t = -1.0 + 10.0 * k as f64 / 4999.0;
+            let expected = if t > x[0] && t < x[39] {
+                Some(x.partition_point(|&xi| xi <= t) - 1)
+            } else {
+                None
+            };
+            match (f.locate(t), expected) {
+                (Located::Inside { i, .. }, Some(j)) => assert_eq!(i, j, "at {t}"),
+                (Located::Outside(..), None) => {}
+                _ => panic!("inside/outside mismatch at {t}"),
+            }
+        }
+        for &t in &x[1..39] {
+            match f.locate(t) {
+                Located::Inside { i, s, .. } => assert!(x[i] == t && s == 0.0),
+                Located::Outside(..) => panic!("node {t} outside"),
+            }
+        }
     }
 
     #[test]
