@@ -13,8 +13,15 @@ use super::{CoupledProblem, Unknowns};
 
 impl CoupledProblem<'_> {
     /// Re-evaluates the wake-curvature speeds for `unknowns` and applies them to `layout` (and
-    /// to the layouts built after it). No-op when wake curvature is not modelled.
-    pub(super) fn update_curvature_speeds(&self, layout: &mut Layout, unknowns: &Unknowns) {
+    /// to the layouts built after it); with `jacobian`, also the influence matrix a new
+    /// factorisation is made with (a chord step reuses the old one). No-op when wake curvature
+    /// is not modelled.
+    pub(super) fn update_curvature_speeds(
+        &self,
+        layout: &mut Layout,
+        unknowns: &Unknowns,
+        jacobian: bool,
+    ) {
         let case = self.case;
         if case.wake_turning.is_empty() || layout.wake.is_empty() {
             return;
@@ -31,6 +38,9 @@ impl CoupledProblem<'_> {
         let (offset, slopes) = case.curvature_sheet(&coefficients, &defect_flux);
         layout.set_speed_offset(case, &offset);
         self.speed_offset.replace(offset);
+        if !jacobian {
+            return;
+        }
         // ∂ue_i/∂m_j of the sheet: station j's wake node w(j) appears in panels w − 1 and w.
         let stag = layout.split.stagnation.node;
         let ns = case.n_surface;

@@ -185,7 +185,7 @@ impl<'a> CoupledProblem<'a> {
         let mut last_moves = [None; 2];
         for iteration in 1..=MAX_NEWTON_ITERATIONS.min(self.settings.max_iterations.max(1)) {
             iterations = iteration;
-            self.update_curvature_speeds(&mut layout, &unknowns);
+            self.update_curvature_speeds(&mut layout, &unknowns, frozen.is_none());
             let ue = layout.edge_speeds(&unknowns.m);
             let lins: Option<Vec<_>> = frozen.is_none().then(|| {
                 (0..layout.len())
