@@ -82,11 +82,13 @@ impl CaseModel {
         let mut y = solver.node_y().to_vec();
         x.extend_from_slice(&wake.x);
         y.extend_from_slice(&wake.y);
-        let q_inviscid = solver.edge_velocity(alpha_deg, &wake);
-        let influence = solver.mass_defect_influence(&wake);
+        // One set of wake influence data for the three operators of the case.
+        let ops = solver.wake_operators(&wake);
+        let q_inviscid = solver.edge_velocity_with(alpha_deg, &ops);
+        let influence = solver.mass_defect_influence_with(&wake, &ops);
         let (wake_vorticity, wake_turning) = if settings.wake_curvature {
             (
-                solver.wake_vorticity_influence(&wake),
+                solver.wake_vorticity_influence_with(&ops),
                 wake_node_turning(&wake),
             )
         } else {

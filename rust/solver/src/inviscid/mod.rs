@@ -38,7 +38,7 @@ pub mod wake;
 mod wake_vorticity;
 
 pub use crate::linalg::DenseMatrix;
-pub use transpiration::TranspirationSolution;
+pub use transpiration::{TranspirationSolution, WakeOperators};
 pub use wake::Wake;
 pub use wake_vorticity::{smoothed_panel_curvature, wake_node_turning};
 

@@ -55,6 +55,18 @@ pub(super) struct WakeData {
     pub(super) to_nodes: Vec<Vec<(usize, f64)>>,
 }
 
+/// The wake-dependent influence data of one wake, built once and shared by the inviscid edge
+/// velocity, the mass-defect influence D and the wake-vorticity response of a case.
+pub struct WakeOperators {
+    pub(super) data: WakeData,
+    /// Normal velocity at the condition points per unit σ (`source_normal_rows`).
+    pub(super) normal: DenseMatrix,
+    /// Wake-node tangential speed per unit surface γ and interior source (`wake_tangential_rows`).
+    pub(super) vortex: DenseMatrix,
+    /// Wake-node tangential speed per unit σ on each surface then wake panel.
+    pub(super) source: DenseMatrix,
+}
+
 /// A point where the panel system states a condition on the normal velocity (see
 /// `PanelSolver::condition_points`).
 pub(super) struct ConditionPoint {
@@ -316,12 +328,30 @@ impl PanelSolver {
         Ok((surface, wake_sigma))
     }
 
+    /// The influence data of `wake` ([`WakeOperators`]), for the `*_with` entries below.
+    pub fn wake_operators(&self, wake: &Wake) -> WakeOperators {
+        let data = WakeData::new(wake);
+        let normal = self.source_normal_rows(&data);
+        let (vortex, source) = self.wake_tangential_rows(&data);
+        WakeOperators {
+            data,
+            normal,
+            vortex,
+            source,
+        }
+    }
+
     /// Inviscid edge velocity for `alpha_deg`: the signed surface speeds γ at the surface nodes,
     /// then the speed along the wake at the wake nodes (no transpiration).
     pub fn edge_velocity(&self, alpha_deg: f64, wake: &Wake) -> Vec<f64> {
+        self.edge_velocity_with(alpha_deg, &self.wake_operators(wake))
+    }
+
+    /// [`Self::edge_velocity`] with the wake's influence data already built.
+    pub fn edge_velocity_with(&self, alpha_deg: f64, ops: &WakeOperators) -> Vec<f64> {
         let zeros_surface = vec![0.0; self.panels.count()];
-        let zeros_wake = vec![0.0; wake.len().saturating_sub(1)];
-        match self.solve_with_transpiration(alpha_deg, wake, &zeros_surface, &zeros_wake) {
+        let zeros_wake = vec![0.0; ops.data.panels.count()];
+        match self.transpiration_with(alpha_deg, ops, &zeros_surface, &zeros_wake) {
             Ok(t) => t
                 .solution
                 .gamma
@@ -342,7 +372,19 @@ impl PanelSolver {
         surface_sigma: &[f64],
         wake_sigma: &[f64],
     ) -> Result<TranspirationSolution> {
-        let data = WakeData::new(wake);
+        let ops = self.wake_operators(wake);
+        self.transpiration_with(alpha_deg, &ops, surface_sigma, wake_sigma)
+    }
+
+    /// [`Self::solve_with_transpiration`] with the wake's influence data already built.
+    fn transpiration_with(
+        &self,
+        alpha_deg: f64,
+        ops: &WakeOperators,
+        surface_sigma: &[f64],
+        wake_sigma: &[f64],
+    ) -> Result<TranspirationSolution> {
+        let data = &ops.data;
         let (n, np, nw) = (
             self.panels.nodes(),
             self.panels.count(),
@@ -356,7 +398,7 @@ impl PanelSolver {
             )));
         }
         let sigma: Vec<f64> = surface_sigma.iter().chain(wake_sigma).copied().collect();
-        let normal = self.source_normal_rows(&data).matvec(&sigma);
+        let normal = ops.normal.matvec(&sigma);
         let (s, c) = alpha_deg.to_radians().sin_cos();
         let direction = self.interior().direction;
         let mut rhs: Vec<f64> = (0..=n)
@@ -373,10 +415,9 @@ impl PanelSolver {
             .collect();
         self.lu.solve_in_place(&mut rhs);
         let sheet = rhs;
-        let (vortex, source) = self.wake_tangential_rows(&data);
-        let free = self.wake_free_stream(&data, alpha_deg);
-        let induced_v = vortex.matvec(&sheet);
-        let induced_s = source.matvec(&sigma);
+        let free = self.wake_free_stream(data, alpha_deg);
+        let induced_v = ops.vortex.matvec(&sheet);
+        let induced_s = ops.source.matvec(&sigma);
         let wake_velocity = (0..data.to_nodes.len())
             .map(|k| free[k] + induced_v[k] + induced_s[k])
             .collect();
@@ -391,7 +432,13 @@ impl PanelSolver {
     /// with displacement is `edge_velocity(α, wake) + D·m`. It does not depend on α except
     /// through the wake geometry.
     pub fn mass_defect_influence(&self, wake: &Wake) -> DenseMatrix {
-        let data = WakeData::new(wake);
+        self.mass_defect_influence_with(wake, &self.wake_operators(wake))
+    }
+
+    /// [`Self::mass_defect_influence`] with the wake's influence data (`ops`, of `wake`)
+    /// already built.
+    pub fn mass_defect_influence_with(&self, wake: &Wake, ops: &WakeOperators) -> DenseMatrix {
+        let data = &ops.data;
         let (n, np, nw_nodes) = (
             self.panels.nodes(),
             self.panels.count(),
@@ -399,7 +446,7 @@ impl PanelSolver {
         );
         let nw = data.panels.count();
         let total = n + nw_nodes;
-        let normal = self.source_normal_rows(&data);
+        let normal = &ops.normal;
         // dσ/dm as sparse columns: column j touches at most two panels.
         let column = |j: usize| -> [(usize, f64); 2] {
             if j < n {
@@ -468,7 +515,7 @@ impl PanelSolver {
         }
         // Wake rows (node cell averages): vortex part through d(sheet)/dm plus the direct source
         // part.
-        let (vortex, source) = self.wake_tangential_rows(&data);
+        let (vortex, source) = (&ops.vortex, &ops.source);
         let mut d = DenseMatrix::zeros(total, total);
         for k in 0..nw_nodes {
             if nw == 0 {

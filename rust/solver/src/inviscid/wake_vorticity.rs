@@ -17,7 +17,7 @@
 //! side and the lift falls.
 
 use super::influence::{influence_at, Coefficients, Scratch};
-use super::transpiration::WakeData;
+use super::transpiration::WakeOperators;
 use super::{PanelSolver, Wake};
 use crate::linalg::DenseMatrix;
 
@@ -80,7 +80,12 @@ impl PanelSolver {
     /// rows and the first wake panel's strength on the right of the Kutta row
     /// (γ₀ + γ_{N−1} = γ_w(0), module documentation).
     pub fn wake_vorticity_influence(&self, wake: &Wake) -> DenseMatrix {
-        let data = WakeData::new(wake);
+        self.wake_vorticity_influence_with(&self.wake_operators(wake))
+    }
+
+    /// [`Self::wake_vorticity_influence`] with the wake's influence data already built.
+    pub fn wake_vorticity_influence_with(&self, ops: &WakeOperators) -> DenseMatrix {
+        let data = &ops.data;
         let (n, nw) = (self.panels.nodes(), data.panels.count());
         let nodes = data.to_nodes.len();
         let mut out = DenseMatrix::zeros(n + nodes, nw);
@@ -116,7 +121,7 @@ impl PanelSolver {
         }
         // Wake rows: through the re-solved sheet, plus the wake panels' own tangential speed
         // (on its own panel the principal value, the mean of the two sides, is zero).
-        let (vortex, _) = self.wake_tangential_rows(&data);
+        let vortex = &ops.vortex;
         let mut direct = DenseMatrix::zeros(data.points.len(), nw);
         for (p, &(px, py, own)) in data.points.iter().enumerate() {
             let (tx, ty) = (data.panels.tx[own], data.panels.ty[own]);
