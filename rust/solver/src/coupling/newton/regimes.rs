@@ -28,6 +28,12 @@ const TRAILING_EDGE_FRACTION_SLACK: f64 = 0.75;
 /// pulls transition up.
 const UNSETTLED_N_MARGIN: f64 = 1.0;
 
+/// Whether moving transition from station `from` to station `to` undoes the side's last move
+/// (`last`, as case nodes).
+fn undoes_last(last: Option<(usize, usize)>, layout: &Layout, from: usize, to: usize) -> bool {
+    last == Some((layout.nodes[to], layout.nodes[from]))
+}
+
 impl CoupledProblem<'_> {
     /// Makes station k turbulent with the turbulent start of its own (laminar) state.
     pub(super) fn make_turbulent(&self, unknowns: &mut Unknowns, ue: &[f64], k: usize) {
@@ -130,9 +136,7 @@ impl CoupledProblem<'_> {
             });
             // (Not when it would undo the side's last move one interval downstream.)
             let early = early.filter(|&j| {
-                !(j + 1 == t
-                    && t < range.end
-                    && last_moves[side] == Some((layout.nodes[j], layout.nodes[t])))
+                !(j + 1 == t && t < range.end && undoes_last(last_moves[side], layout, t, j))
             });
             if let Some(j) = early {
                 if t < range.end {
@@ -164,8 +168,7 @@ impl CoupledProblem<'_> {
             } else {
                 slack
             };
-            let undoes =
-                |target: usize| last_moves[side] == Some((layout.nodes[target], layout.nodes[t]));
+            let undoes = |target: usize| undoes_last(last_moves[side], layout, t, target);
             if f < -slack && t - 1 > range.start && !undoes(t - 1) {
                 last_moves[side] = Some((layout.nodes[t], layout.nodes[t - 1]));
                 let h_t = self.transition_shape(layout, unknowns, ue, t, f);
