@@ -185,14 +185,16 @@ def analyze(
     :class:`wakerank.GeometryError` for unusable geometry.
 
     With a Reynolds number (1e4 to 1e8) the analysis is viscous: the panel method coupled to
-    the integral boundary layer (quasi-simultaneous interaction), drag from the far wake.
+    the integral boundary layer (coupled Newton solution), drag from the far wake.
     Options: ``n_factor`` (critical N, 1–20, default 9), ``turbulence_intensity`` (a fraction,
     0.0001–0.05, turned into N by Mack's relation), ``trip_upper`` / ``trip_lower`` (forced
     transition at x/c in [0, 1]); mach 0–0.7. Columns: alpha_deg, cl, cd (far wake, 2θ∞/c),
     cd_squire_young, cd_friction, cd_pressure, cm_c4, cp_min, transition_upper,
     transition_lower (x/c), separation_upper, separation_lower (x/c of turbulent separation,
-    null when none), converged, iterations, residual, then l_over_d, reynolds, mach,
-    n_factor, panels. Rows that did not converge are kept with ``converged`` false.
+    null when none), converged, iterations, residual, wake_curvature (whether the row includes
+    the wake-curvature pressure jump; false where only the first-order wake converged), then
+    l_over_d, reynolds, mach, n_factor, panels. Rows that did not converge are kept with
+    ``converged`` false.
     """
     alphas = parse_alpha(alpha_deg)
     mach_value = check_mach(mach)

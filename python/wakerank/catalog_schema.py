@@ -45,6 +45,7 @@ POINT_SCHEMA: dict[str, pl.DataType] = {
     "converged": pl.Boolean(),
     "iterations": pl.Int32(),
     "residual": pl.Float64(),
+    "wake_curvature": pl.Boolean(),
     "error": pl.String(),
 }
 

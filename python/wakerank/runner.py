@@ -189,7 +189,7 @@ def case_rows(case: Case, result: pl.DataFrame | None, error: str | None) -> pl.
         columns.append(column.cast(dtype).alias(name))
     rows = rows.select(columns)
     # A row is converged only if the analysis said so; missing angles and failures are not.
-    return rows.with_columns(pl.col("converged").fill_null(False))
+    return rows.with_columns(pl.col("converged", "wake_curvature").fill_null(False))
 
 
 def read_part_counts(path: Path, chunk: ChunkSpec) -> ChunkResult | None:

@@ -35,6 +35,7 @@ POLAR_COLUMNS: tuple[str, ...] = (
     "converged",
     "iterations",
     "residual",
+    "wake_curvature",
 )
 
 #: Columns after the fixed ones: lift-to-drag ratio and the flow conditions of the row.
@@ -105,7 +106,7 @@ def polar_frame(columns: dict[str, Any], cond: dict[str, Any] | None = None) -> 
     data: dict[str, Any] = {}
     for name in POLAR_COLUMNS:
         values = np.asarray(columns[name])
-        if name == "converged":
+        if name in ("converged", "wake_curvature"):
             data[name] = pl.Series(name, values.astype(bool))
         elif name == "iterations":
             data[name] = pl.Series(name, values.astype(np.int64))

@@ -92,6 +92,7 @@ def fake_analyze(
             "converged": converged,
             "iterations": np.full(a.size, 17),
             "residual": np.full(a.size, 1e-7),
+            "wake_curvature": np.ones(a.size),
         }
     ).with_columns(pl.col("separation_upper", "separation_lower").fill_nan(None))
 

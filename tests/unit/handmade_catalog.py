@@ -51,6 +51,7 @@ def write_catalog(folder: Path) -> Path:
                 "panels": 160, "alpha_deg": ALPHAS, "cl": cl, "cd": cd, "cm_c4": -0.25 * camber[i],
                 "transition_upper": 0.6 - 0.04 * ALPHAS, "transition_lower": 0.6 + 0.02 * ALPHAS,
                 "converged": ALPHAS != 13.0, "iterations": 20, "residual": 1e-7,
+                "wake_curvature": ALPHAS != 13.0,
             }))
     frame = pl.DataFrame(sections)
     pl.DataFrame({n: frame[n] if n in frame.columns else None for n in SECTION_SCHEMA},

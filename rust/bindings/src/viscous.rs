@@ -110,6 +110,12 @@ fn rows_to_dict<'py>(py: Python<'py>, rows: &[ViscousRow]) -> PyResult<Bound<'py
     )?;
     column(py, &dict, "iterations", get(|r| r.iterations as f64))?;
     column(py, &dict, "residual", get(|r| r.residual))?;
+    column(
+        py,
+        &dict,
+        "wake_curvature",
+        get(|r| if r.wake_curvature { 1.0 } else { 0.0 }),
+    )?;
     Ok(dict)
 }
 

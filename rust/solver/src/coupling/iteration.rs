@@ -87,6 +87,9 @@ pub(crate) struct CoupledSolution {
     /// The full iterate of the coupled Newton iteration, when that produced this solution:
     /// the best warm start for a neighbouring angle.
     pub newton_state: Option<super::newton::NewtonState>,
+    /// Whether the solution includes the wake-curvature pressure jump (only the Newton
+    /// iteration models it; the quasi-simultaneous iteration's wake is first-order).
+    pub wake_curvature: bool,
 }
 
 impl CoupledSolution {
@@ -330,6 +333,7 @@ pub(crate) fn solve_case(
             iterations: iteration,
             residual,
             newton_state: None,
+            wake_curvature: false,
         });
         if done || !finite {
             break;

@@ -68,6 +68,11 @@ pub struct ViscousRow {
     pub iterations: usize,
     /// Final interaction residual (see `iteration`).
     pub residual: f64,
+    /// Whether the solution includes the wake-curvature pressure jump (docs/method.md, "Wake
+    /// curvature"); false for rows solved with the first-order wake (the quasi-simultaneous
+    /// iteration's, and the fall-back where the full model has no converged solution) and for
+    /// rows that did not converge.
+    pub wake_curvature: bool,
 }
 
 impl ViscousRow {
@@ -89,6 +94,7 @@ impl ViscousRow {
             converged: false,
             iterations,
             residual,
+            wake_curvature: false,
         }
     }
 

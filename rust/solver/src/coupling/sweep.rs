@@ -26,13 +26,16 @@ pub struct ViscousAnalysis {
 }
 
 /// Outer passes of the quasi-simultaneous iteration that give the coupled Newton iteration its
-/// first iterate when no converged neighbour is known.
+/// first iterate (from the inviscid flow, or from a neighbour's mass defect).
 const STARTER_PASSES: usize = 20;
 
-/// Solve one angle. First the coupled Newton iteration from the warm start's full iterate;
-/// then from a first iterate made by a few passes of the quasi-simultaneous iteration; last,
-/// the quasi-simultaneous iteration on its own with its strategies (cautious, stiff). The first
-/// attempt that converges is kept, otherwise the last one.
+/// Solve one angle. First the coupled Newton iteration from a first iterate made by a few passes
+/// of the quasi-simultaneous iteration from the inviscid flow, so that the answer does not depend
+/// on which other angles were asked for; then from the warm start's full iterate (the converged
+/// neighbour); then from the quasi-simultaneous starter warm-started with the neighbour's mass
+/// defect; last, the quasi-simultaneous iteration on its own with its strategies (cautious,
+/// stiff), each finished by the Newton iteration. The first attempt that converges is kept,
+/// otherwise the last one.
 pub(crate) fn solve_angle(
     section: &SectionModel,
     alpha_deg: f64,
@@ -58,6 +61,51 @@ fn solve_case_model(
         }
         converged
     };
+    let warm_defect = warm_start.map(|w| w.mass_defect.as_slice());
+    let starter = ViscousSettings {
+        max_iterations: STARTER_PASSES,
+        ..settings.clone()
+    };
+    let first_order_settings = ViscousSettings {
+        wake_curvature: false,
+        ..settings.clone()
+    };
+    let first_order = CoupledProblem::new(case, &first_order_settings);
+    // A quasi-simultaneous attempt, converged or not, is finished by the Newton iteration;
+    // returns whether the case is done. A converged quasi-simultaneous solution the full
+    // model does not converge from is itself first-order in the wake: the Newton iteration
+    // with the first-order wake polishes it to the Newton tolerance where it can.
+    let attempt = |settings: &ViscousSettings,
+                   start: Option<&[f64]>,
+                   strategy,
+                   best: &mut Option<CoupledSolution>| {
+        let Ok(first) = solve_case(case, settings, start, strategy) else {
+            return false;
+        };
+        let first_state = NewtonState::from_coupled(&first);
+        if let Ok(solution) = problem.solve(&first_state) {
+            if keep(solution, best) {
+                return true;
+            }
+        }
+        if !first.converged {
+            return keep(first, best);
+        }
+        if problem.models_wake_curvature() {
+            if let Ok(solution) = first_order.solve(&first_state) {
+                if keep(solution, best) {
+                    return true;
+                }
+            }
+        }
+        keep(first, best);
+        true
+    };
+    // 1. From the inviscid flow: the same answer whatever the neighbours.
+    if attempt(&starter, None, PRIMARY, &mut best) {
+        return best;
+    }
+    // 2. From the converged neighbour's full iterate.
     if let Some(state) = warm_start.and_then(|w| w.state.as_ref()) {
         if let Ok(solution) = problem.solve(state) {
             if keep(solution, &mut best) {
@@ -65,33 +113,19 @@ fn solve_case_model(
             }
         }
     }
-    let warm_defect = warm_start.map(|w| w.mass_defect.as_slice());
-    let starter = ViscousSettings {
-        max_iterations: STARTER_PASSES,
-        ..settings.clone()
-    };
-    // Each quasi-simultaneous attempt, converged or not, is finished by the Newton iteration.
+    // 3. The quasi-simultaneous strategies, from the neighbour's mass defect, then from none.
     let attempts = [
         (&starter, PRIMARY),
         (settings, PRIMARY),
         (settings, CAUTIOUS),
         (settings, STIFF),
     ];
-    for (attempt_settings, strategy) in attempts {
+    for (index, (attempt_settings, strategy)) in attempts.into_iter().enumerate() {
         for start in [warm_defect, None] {
-            if let Ok(first) = solve_case(case, attempt_settings, start, strategy) {
-                let first_converged = first.converged;
-                if let Ok(solution) = problem.solve(&NewtonState::from_coupled(&first)) {
-                    if keep(solution, &mut best) {
-                        return best;
-                    }
-                }
-                if keep(first, &mut best) {
-                    return best;
-                }
-                if first_converged {
-                    return best;
-                }
+            // (The cold starter was attempt 1.)
+            let repeat = index == 0 && start.is_none();
+            if !repeat && attempt(attempt_settings, start, strategy, &mut best) {
+                return best;
             }
             if warm_defect.is_none() {
                 break;
@@ -99,6 +133,45 @@ fn solve_case_model(
         }
     }
     best
+}
+
+/// The solution with the first-order wake (no wake-curvature sheet), for an angle at which the
+/// full model has no converged solution — typically past a fold of its solution branch, where
+/// the wake is too thick for the thin-layer curvature term (docs/method.md, "Wake curvature"):
+/// every attempt of [`solve_case_model`] with the sheet left out. Returns only a converged
+/// solution; its row says `wake_curvature` false, like the rows of the quasi-simultaneous
+/// iteration, whose wake is first-order too.
+fn first_order_wake_solution(
+    case: &CaseModel,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+) -> Option<CoupledSolution> {
+    if !settings.wake_curvature {
+        return None;
+    }
+    let first_order = ViscousSettings {
+        wake_curvature: false,
+        ..settings.clone()
+    };
+    solve_case_model(case, &first_order, warm_start).filter(|solution| solution.converged)
+}
+
+/// [`solve_angle`], and where that converges nothing, [`first_order_wake_solution`]: for
+/// single-angle entries (stations, target cl), the same last resort a sweep takes.
+pub(crate) fn solve_angle_or_first_order(
+    section: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+) -> Option<(CaseModel, CoupledSolution)> {
+    let (case, solution) = solve_angle(section, alpha_deg, settings, warm_start)?;
+    if solution.converged {
+        return Some((case, solution));
+    }
+    match first_order_wake_solution(&case, settings, warm_start) {
+        Some(first_order) => Some((case, first_order)),
+        None => Some((case, solution)),
+    }
 }
 
 /// Smallest angle step worth subdividing when a warm start fails, degrees.
@@ -230,6 +303,7 @@ pub(crate) fn sweep(
         }
     }
     repair(model, alpha_deg, settings, &order, &mut rows, &mut warm_of);
+    first_order_rows(model, alpha_deg, settings, &order, &mut rows, &warm_of);
     rows.into_iter()
         .zip(alpha_deg)
         .map(|(r, &a)| r.unwrap_or_else(|| ViscousRow::failed(a, 0, f64::NAN)))
@@ -289,6 +363,50 @@ fn repair(
     }
 }
 
+/// Last resort after the repair pass: each angle still unconverged is solved with the
+/// first-order wake ([`first_order_wake_solution`]) from its converged neighbour below, else
+/// above (in α order), with the continuation in α of [`continuation`]. The neighbours are the
+/// full-model solutions of the passes before, so the order of this pass does not matter.
+fn first_order_rows(
+    model: &SectionModel,
+    alpha_deg: &[f64],
+    settings: &ViscousSettings,
+    order: &[usize],
+    rows: &mut [Option<ViscousRow>],
+    warm_of: &[Option<WarmStart>],
+) {
+    if !settings.wake_curvature {
+        return;
+    }
+    let attempt = |alpha: f64, start: Option<&WarmStart>| -> Attempt {
+        let case = CaseModel::new(model, alpha, settings).ok()?;
+        let solution = first_order_wake_solution(&case, settings, start)?;
+        Some((case, solution))
+    };
+    for pos in 0..order.len() {
+        let index = order[pos];
+        if rows[index].as_ref().is_some_and(|r| r.converged) {
+            continue;
+        }
+        let alpha = alpha_deg[index];
+        let neighbour = [
+            pos.checked_sub(1),
+            Some(pos + 1).filter(|&p| p < order.len()),
+        ]
+        .into_iter()
+        .flatten()
+        .find_map(|p| warm_of[order[p]].clone().map(|w| (alpha_deg[order[p]], w)));
+        let first = attempt(alpha, neighbour.as_ref().map(|n| &n.1));
+        let solved = match neighbour {
+            Some(n) => continuation(alpha, n, first, |a, start| attempt(a, Some(start))),
+            None => first,
+        };
+        if let Some((case, solution)) = solved.filter(|(_, s)| s.converged) {
+            rows[index] = Some(polar_row(&case, &solution, settings));
+        }
+    }
+}
+
 /// The Newton iteration at `alpha_deg` from the iterate `warm` = (angle, state) only, with
 /// the continuation of [`continuation`].
 fn warm_newton_with_continuation(
@@ -327,7 +445,7 @@ pub fn boundary_layer_stations(
             }
         }
     }
-    match solve_angle(&model, alpha_deg, settings, warm.as_ref()) {
+    match solve_angle_or_first_order(&model, alpha_deg, settings, warm.as_ref()) {
         Some((case, solution)) => Ok(ViscousAnalysis {
             row: polar_row(&case, &solution, settings),
             stations: stations(&case, &solution),
@@ -421,10 +539,12 @@ pub(crate) fn polar_row(
         converged: sol.converged,
         iterations: sol.iterations,
         residual: sol.residual,
+        wake_curvature: sol.wake_curvature && sol.converged,
     };
     // A converged row never holds NaN: anything non-finite demotes it to a flagged row.
     if row.converged && !row.is_finite() {
         row.converged = false;
+        row.wake_curvature = false;
     }
     row
 }

@@ -5,7 +5,7 @@ use crate::geometry::Section;
 
 use super::model::SectionModel;
 use super::settings::ViscousSettings;
-use super::sweep::{polar_row, solve_angle};
+use super::sweep::{polar_row, solve_angle_or_first_order};
 use super::ViscousRow;
 
 /// Largest |α| searched, degrees.
@@ -41,7 +41,7 @@ pub fn solve_for_cl(
     let direction = target_cl.signum();
     let mut extreme = f64::NAN;
     for _ in 0..40 {
-        let solved = solve_angle(&model, alpha, settings, warm.as_ref());
+        let solved = solve_angle_or_first_order(&model, alpha, settings, warm.as_ref());
         let Some((case, sol)) = solved else { break };
         let row = polar_row(&case, &sol, settings);
         if !row.converged {

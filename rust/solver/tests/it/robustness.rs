@@ -21,6 +21,16 @@ fn report(label: &str, rows: &[(String, f64, wakerank_solver::coupling::ViscousR
         .filter(|r| r.2.converged && r.2.residual > 1e-8)
         .count();
     println!("  of the converged, {outer_only} by the outer iteration alone (residual > 1e-8)");
+    let first_order: Vec<String> = rows
+        .iter()
+        .filter(|r| r.2.converged && !r.2.wake_curvature)
+        .map(|(name, re, row)| format!("{name} {re:.0e} {:.0}", row.alpha_deg))
+        .collect();
+    println!(
+        "  of the converged, {} with the first-order wake: {}",
+        first_order.len(),
+        first_order.join(", ")
+    );
     let share = converged as f64 / rows.len() as f64;
     println!(
         "{label}: {converged} of {} converge ({:.1} %)",

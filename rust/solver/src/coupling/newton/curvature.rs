@@ -23,7 +23,7 @@ impl CoupledProblem<'_> {
         jacobian: bool,
     ) {
         let case = self.case;
-        if case.wake_turning.is_empty() || layout.wake.is_empty() {
+        if !self.models_wake_curvature() || layout.wake.is_empty() {
             return;
         }
         let ue = layout.edge_speeds(&unknowns.m);

@@ -151,6 +151,12 @@ impl<'a> CoupledProblem<'a> {
         }
     }
 
+    /// Whether this problem carries the wake-curvature sheet (the setting, and a case built
+    /// with it).
+    pub(crate) fn models_wake_curvature(&self) -> bool {
+        self.settings.wake_curvature && !self.case.wake_turning.is_empty()
+    }
+
     /// Runs the coupled Newton iteration from `start`.
     pub(crate) fn solve(&self, start: &NewtonState) -> Result<CoupledSolution> {
         let case = self.case;

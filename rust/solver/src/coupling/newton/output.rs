@@ -179,5 +179,6 @@ pub(super) fn coupled_solution(
         iterations,
         residual,
         newton_state: None,
+        wake_curvature: problem.models_wake_curvature(),
     }
 }
