@@ -58,6 +58,9 @@ def test_results_do_not_depend_on_workers_or_chunk_size(catalogs):
     one, two = (open_catalog(c).points.collect().sort(ORDER) for c in catalogs)
     assert one.height == 3 * 2 * 13
     assert one.equals(two)
+    # The catalog keeps which model each row came from (docs/catalog.md).
+    assert one["wake_curvature"].dtype == pl.Boolean
+    assert one.filter(pl.col("converged"))["wake_curvature"].mean() > 0.9
 
 
 def test_cd_at_design_cl_agrees_with_a_direct_solve(catalogs):

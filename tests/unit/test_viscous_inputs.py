@@ -54,6 +54,9 @@ def test_polar_has_the_fixed_columns(naca0012):
     assert polar["converged"].dtype == pl.Boolean
     assert polar["iterations"].dtype == pl.Int64
     assert polar["alpha_deg"].to_list() == [0.0, 2.0]
+    # Attached points of a NACA 0012 are solved with the full model (wake-curvature term).
+    assert polar["wake_curvature"].dtype == pl.Boolean
+    assert polar["wake_curvature"].all()
 
 
 def test_station_table_has_the_fixed_columns(naca0012):
