@@ -62,3 +62,15 @@ def test_unknown_section_is_one_line() -> None:
     result = runner.invoke(app, ["analyze", "not-a-section"])
     assert result.exit_code == 2 and "Traceback" not in result.output
     assert result.output.strip().startswith("error:")
+
+
+def test_viscous_view_marks_first_order_wake_rows() -> None:
+    from wakerank.cli.analyze import FIRST_ORDER_MARK, VISCOUS_SHOWN, viscous_view
+
+    table = pl.DataFrame(
+        {name: [0.0, 1.0, 2.0] for name in VISCOUS_SHOWN if name != "converged"}
+        | {"converged": [True, True, False], "wake_curvature": [True, False, False]}
+    )
+    view = viscous_view(table)
+    assert view.columns == VISCOUS_SHOWN
+    assert view["converged"].to_list() == ["yes", FIRST_ORDER_MARK, "no"]

@@ -64,6 +64,29 @@ VISCOUS_SHOWN = [
 ]
 
 
+#: How the screen table marks a converged row solved with the first-order wake.
+FIRST_ORDER_MARK = "yes*"
+FIRST_ORDER_NOTE = (
+    "converged with the first-order wake only (no wake-curvature term; the full model has no "
+    "converged solution there, lift typically 1-3 % above its trend); column wake_curvature "
+    "in --out"
+)
+
+
+def viscous_view(table: pl.DataFrame) -> pl.DataFrame:
+    """The on-screen columns of a viscous polar, `converged` as yes / yes* / no (yes*: the
+    row comes from the first-order wake, see :data:`FIRST_ORDER_NOTE`)."""
+    flag = (
+        pl.when(~pl.col("converged"))
+        .then(pl.lit("no"))
+        .when(pl.col("wake_curvature"))
+        .then(pl.lit("yes"))
+        .otherwise(pl.lit(FIRST_ORDER_MARK))
+        .alias("converged")
+    )
+    return table.with_columns(flag).select(VISCOUS_SHOWN)
+
+
 def check_output(out: Optional[Path]) -> None:
     """Fail before any work when --out has a suffix we cannot write."""
     if out is not None and out.suffix.lower() not in OUTPUT_SUFFIXES:
@@ -105,8 +128,10 @@ def run_analyze(spec: str, alpha: str, options: AnalyzeOptions, out: Optional[Pa
     section = load_section(spec)
     table = wr.analyze(section, alpha_deg=alpha, **options.as_kwargs())
     kind = "viscous" if options.viscous else "inviscid"
-    shown = table.select(VISCOUS_SHOWN) if options.viscous else table
+    shown = viscous_view(table) if options.viscous else table
     print_table(shown, f"{getattr(section, 'name', spec)} ({kind}, {options.panels} panels)")
+    if options.viscous and (shown["converged"] == FIRST_ORDER_MARK).any():
+        typer.echo(f"{FIRST_ORDER_MARK}: {FIRST_ORDER_NOTE}")
     if out is not None:
         write_table(table, out)
         typer.echo(f"wrote {len(table)} rows to {out}")
