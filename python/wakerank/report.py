@@ -85,16 +85,24 @@ def table_html(frame: pl.DataFrame, limit: int = TABLE_ROWS) -> str:
 
 
 def convergence_table(points: pl.DataFrame | pl.LazyFrame) -> pl.DataFrame:
-    """Points, converged points and their share per Reynolds number and transition setting."""
+    """Points, converged points and their share per Reynolds number and transition setting,
+    and how many converged points come from the first-order wake (``wake_curvature`` false)."""
     lazy = points.lazy()
     columns = lazy.collect_schema().names()
     keys = [k for k in ("reynolds", "transition") if k in columns]
     failed = pl.col("error").is_not_null().sum() if "error" in columns else pl.lit(0)
+    converged = pl.col("converged").fill_null(False)
+    first_order = (
+        (converged & ~pl.col("wake_curvature").fill_null(False)).sum()
+        if "wake_curvature" in columns
+        else pl.lit(None, dtype=pl.UInt32)
+    )
     return (
         lazy.group_by(keys)
         .agg(
             pl.len().alias("points"),
-            pl.col("converged").fill_null(False).sum().alias("converged"),
+            converged.sum().alias("converged"),
+            first_order.alias("converged_first_order_wake"),
             failed.alias("points_of_failed_cases"),
         )
         .with_columns((pl.col("converged") / pl.col("points")).alias("converged_share"))

@@ -59,3 +59,16 @@ def test_report_is_valid_html_with_every_section():
         data = base64.b64decode(re.sub("^data:image/png;base64,", "", uri))
         assert data[:8] == b"\x89PNG\r\n\x1a\n"
         assert (int.from_bytes(data[16:20], "big"), int.from_bytes(data[20:24], "big")) == EXPECTED_PIXELS
+
+
+def test_convergence_table_counts_first_order_wake_rows():
+    from wakerank.report import convergence_table
+
+    points = pl.DataFrame({
+        "reynolds": [1e5, 1e5, 1e5, 2e5], "transition": ["free"] * 4,
+        "converged": [True, True, False, True], "wake_curvature": [True, False, False, True],
+        "error": [None] * 4,
+    })
+    table = convergence_table(points)
+    assert table["converged"].to_list() == [2, 1]
+    assert table["converged_first_order_wake"].to_list() == [1, 0]
