@@ -12,6 +12,7 @@
 //! bookkeeping and docs/method.md for the equations.
 
 mod anderson;
+mod attempts;
 mod flat_plate;
 mod forces;
 mod iteration;

@@ -3,9 +3,10 @@
 use crate::error::{Result, SolverError};
 use crate::geometry::Section;
 
+use super::attempts::solve_angle_or_first_order;
 use super::model::SectionModel;
 use super::settings::ViscousSettings;
-use super::sweep::{polar_row, solve_angle_or_first_order};
+use super::sweep::polar_row;
 use super::ViscousRow;
 
 /// Largest |α| searched, degrees.

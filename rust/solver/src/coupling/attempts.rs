@@ -1,0 +1,158 @@
+//! How one angle is solved: the order of attempts (the Newton iteration from the inviscid
+//! flow's first iterate, from the converged neighbour, from the quasi-simultaneous strategies)
+//! and the first-order-wake fall-back where the full model converges nothing
+//! (docs/method.md, "Sweeps and warm starts" and "Wake curvature").
+
+use super::iteration::{solve_case, CoupledSolution, WarmStart, CAUTIOUS, PRIMARY, STIFF};
+use super::model::{CaseModel, SectionModel};
+use super::newton::{CoupledProblem, NewtonState};
+use super::settings::ViscousSettings;
+
+/// Outer passes of the quasi-simultaneous iteration that give the coupled Newton iteration its
+/// first iterate (from the inviscid flow, or from a neighbour's mass defect).
+const STARTER_PASSES: usize = 20;
+
+/// Solve one angle. First the coupled Newton iteration from a first iterate made by a few passes
+/// of the quasi-simultaneous iteration from the inviscid flow, so that the answer does not depend
+/// on which other angles were asked for; then from the warm start's full iterate (the converged
+/// neighbour); then from the quasi-simultaneous starter warm-started with the neighbour's mass
+/// defect; last, the quasi-simultaneous iteration on its own with its strategies (cautious,
+/// stiff), each finished by the Newton iteration. The first attempt that converges is kept,
+/// otherwise the last one.
+pub(crate) fn solve_angle(
+    section: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+) -> Option<(CaseModel, CoupledSolution)> {
+    let case = CaseModel::new(section, alpha_deg, settings).ok()?;
+    let solution = solve_case_model(&case, settings, warm_start)?;
+    Some((case, solution))
+}
+
+fn solve_case_model(
+    case: &CaseModel,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+) -> Option<CoupledSolution> {
+    let problem = CoupledProblem::new(case, settings);
+    let mut best: Option<CoupledSolution> = None;
+    let keep = |solution: CoupledSolution, best: &mut Option<CoupledSolution>| {
+        let converged = solution.converged;
+        if converged || best.as_ref().is_none_or(|b| !b.converged) {
+            *best = Some(solution);
+        }
+        converged
+    };
+    let warm_defect = warm_start.map(|w| w.mass_defect.as_slice());
+    let starter = ViscousSettings {
+        max_iterations: STARTER_PASSES,
+        ..settings.clone()
+    };
+    let first_order_settings = ViscousSettings {
+        wake_curvature: false,
+        ..settings.clone()
+    };
+    let first_order = CoupledProblem::new(case, &first_order_settings);
+    // A quasi-simultaneous attempt, converged or not, is finished by the Newton iteration;
+    // returns whether the case is done. A converged quasi-simultaneous solution the full
+    // model does not converge from is itself first-order in the wake: the Newton iteration
+    // with the first-order wake polishes it to the Newton tolerance where it can.
+    let attempt = |settings: &ViscousSettings,
+                   start: Option<&[f64]>,
+                   strategy,
+                   best: &mut Option<CoupledSolution>| {
+        let Ok(first) = solve_case(case, settings, start, strategy) else {
+            return false;
+        };
+        let first_state = NewtonState::from_coupled(&first);
+        if let Ok(solution) = problem.solve(&first_state) {
+            if keep(solution, best) {
+                return true;
+            }
+        }
+        if !first.converged {
+            return keep(first, best);
+        }
+        if problem.models_wake_curvature() {
+            if let Ok(solution) = first_order.solve(&first_state) {
+                if keep(solution, best) {
+                    return true;
+                }
+            }
+        }
+        keep(first, best);
+        true
+    };
+    // 1. From the inviscid flow: the same answer whatever the neighbours.
+    if attempt(&starter, None, PRIMARY, &mut best) {
+        return best;
+    }
+    // 2. From the converged neighbour's full iterate.
+    if let Some(state) = warm_start.and_then(|w| w.state.as_ref()) {
+        if let Ok(solution) = problem.solve(state) {
+            if keep(solution, &mut best) {
+                return best;
+            }
+        }
+    }
+    // 3. The quasi-simultaneous strategies, from the neighbour's mass defect, then from none.
+    let attempts = [
+        (&starter, PRIMARY),
+        (settings, PRIMARY),
+        (settings, CAUTIOUS),
+        (settings, STIFF),
+    ];
+    for (index, (attempt_settings, strategy)) in attempts.into_iter().enumerate() {
+        for start in [warm_defect, None] {
+            // (The cold starter was attempt 1.)
+            let repeat = index == 0 && start.is_none();
+            if !repeat && attempt(attempt_settings, start, strategy, &mut best) {
+                return best;
+            }
+            if warm_defect.is_none() {
+                break;
+            }
+        }
+    }
+    best
+}
+
+/// The solution with the first-order wake (no wake-curvature sheet), for an angle at which the
+/// full model has no converged solution — typically past a fold of its solution branch, where
+/// the wake is too thick for the thin-layer curvature term (docs/method.md, "Wake curvature"):
+/// every attempt of [`solve_case_model`] with the sheet left out. Returns only a converged
+/// solution; its row says `wake_curvature` false, like the rows of the quasi-simultaneous
+/// iteration, whose wake is first-order too.
+pub(crate) fn first_order_wake_solution(
+    case: &CaseModel,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+) -> Option<CoupledSolution> {
+    if !settings.wake_curvature {
+        return None;
+    }
+    let first_order = ViscousSettings {
+        wake_curvature: false,
+        ..settings.clone()
+    };
+    solve_case_model(case, &first_order, warm_start).filter(|solution| solution.converged)
+}
+
+/// [`solve_angle`], and where that converges nothing, [`first_order_wake_solution`]: for
+/// single-angle entries (stations, target cl), the same last resort a sweep takes.
+pub(crate) fn solve_angle_or_first_order(
+    section: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+) -> Option<(CaseModel, CoupledSolution)> {
+    let (case, solution) = solve_angle(section, alpha_deg, settings, warm_start)?;
+    if solution.converged {
+        return Some((case, solution));
+    }
+    match first_order_wake_solution(&case, settings, warm_start) {
+        Some(first_order) => Some((case, first_order)),
+        None => Some((case, solution)),
+    }
+}
