@@ -6,6 +6,9 @@ comparison names its source. Published values:
 - NACA 0012 at M = 0.15: Ladson, NASA TM-4074 (1988), Table I (free transition at
   Re = 2e6, 3.94e6, 5.97e6) and transition fixed by grit at x/c = 0.05 (Re = 6e6);
   shipped in ``wakerank/data`` (see its README).
+- NACA 0012 at Re 6e6, free transition, in another low-turbulence tunnel: Abbott & von
+  Doenhoff, *Theory of Wing Sections*, section data (values read from the figure,
+  approximate): cd ≈ 0.0058 near zero lift, 0.0066 at cl 0.46.
 - Lift slope of the NACA 0012: McCroskey, AGARD CP-429 / NASA TM-100019 (1988), fit
   dcl/dα = (0.1025 + 0.00485 log10(Re/1e6)) / √(1 − M²) per degree.
 - Flat plates, one side: Blasius CF = 1.328/√Re (Schlichting & Gersten, *Boundary-Layer
@@ -83,6 +86,29 @@ def ladson_free_transition(panels: int = 160) -> list[Comparison]:
             if abs(ref["cl"]) > 0.1:
                 cl = got["cl"] if got["converged"] else float("nan")
                 out.append(Comparison("NACA 0012 free transition", "cl", cond, ref["cl"], cl, src))
+    return out
+
+
+#: Abbott & von Doenhoff, Theory of Wing Sections, section data, NACA 0012 at Re 6e6 with free
+#: transition, read from the figure (approximate): (cl, cd).
+ABBOTT_VON_DOENHOFF_FREE_RE6E6 = ((0.0, 0.0058), (0.46, 0.0066))
+
+
+def abbott_free_transition(panels: int = 160) -> list[Comparison]:
+    """NACA 0012, Re 6e6, free transition (N = 9) vs Abbott & von Doenhoff's figure: cd at the
+    figure's lift coefficients (solved for that cl; M 0.15 like the Ladson cases)."""
+    import wakerank as wr
+
+    out: list[Comparison] = []
+    src = "Abbott & von Doenhoff, section data (figure, approximate)"
+    for cl, cd_published in ABBOTT_VON_DOENHOFF_FREE_RE6E6:
+        try:
+            row = wr.solve_for_cl(naca0012(), cl=cl, reynolds=6e6, mach=0.15, panels=panels)
+            cd = row["cd"][0] if row["converged"][0] else float("nan")
+        except wr.ConvergenceError:
+            cd = float("nan")
+        out.append(Comparison("NACA 0012 free transition", "cd", f"Re 6e6, cl {cl:.2f}",
+                              cd_published, cd, src))
     return out
 
 
@@ -166,6 +192,7 @@ def run_all(panels: int = 160) -> pl.DataFrame:
     deviation (relative), source."""
     comparisons = (
         ladson_free_transition(panels)
+        + abbott_free_transition(panels)
         + ladson_tripped(panels)
         + lift_slope(panels)
         + flat_plates()
