@@ -129,8 +129,9 @@ def polar_figure(
 ) -> Figure:
     """Drag polar (cl over cd) and lift curve (cl over alpha) of each section at one condition.
 
-    Only converged points are drawn; a non-converged angle leaves a gap in the line. Each
-    `design_cl` is marked by a dashed line.
+    Only converged points are drawn; a non-converged angle leaves a gap in the line. Points
+    solved with the first-order wake (``wake_curvature`` false, docs/catalog.md) are ringed.
+    Each `design_cl` is marked by a dashed line.
     """
     if not section_ids:
         raise InputError("name at least one section id to plot")
@@ -139,6 +140,7 @@ def polar_figure(
     figure = new_figure()
     drag_axes, lift_axes = figure.subplots(1, 2)
     missing = []
+    ringed = False
     for section_id in section_ids:
         polar = rows.filter(pl.col("section_id") == section_id).sort("alpha_deg")
         if polar.height == 0:
@@ -151,6 +153,14 @@ def polar_figure(
         label = labels.get(section_id, section_id)
         (line,) = drag_axes.plot(cd, cl, marker=".", label=label)
         lift_axes.plot(alpha, cl, marker=".", color=line.get_color(), label=label)
+        if "wake_curvature" in polar.columns:
+            first_order = ok & ~polar["wake_curvature"].fill_null(True).to_numpy()
+            if first_order.any():
+                ring = {"marker": "o", "ls": "none", "mfc": "none", "color": line.get_color()}
+                name = None if ringed else "first-order wake"
+                drag_axes.plot(cd[first_order], cl[first_order], label=name, **ring)
+                lift_axes.plot(alpha[first_order], cl[first_order], **ring)
+                ringed = True
     if missing:
         raise InputError(f"no polar at this condition for section(s) {', '.join(missing)}")
     for k, target in enumerate(design_cl):

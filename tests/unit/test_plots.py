@@ -56,6 +56,17 @@ def test_polar_plot_is_a_png_of_the_standard_size(tmp_path):
     assert png_size(path) == EXPECTED_PIXELS
 
 
+def test_polar_plot_rings_first_order_wake_points():
+    points = handmade_points().with_columns(wake_curvature=pl.col("alpha_deg") < 9.0)
+    figure = polar_figure(points, ["s-a", "s-b"], reynolds=8e5)
+    drag_axes = figure.axes[0]
+    labels = [text.get_text() for text in drag_axes.get_legend().get_texts()]
+    assert labels.count("first-order wake") == 1
+    # Two sections, each with its polar line and its ring markers (9 and 10 degrees).
+    rings = [line for line in drag_axes.get_lines() if line.get_marker() == "o"]
+    assert len(rings) == 2 and all(len(line.get_xdata()) == 2 for line in rings)
+
+
 def test_polar_plot_names_a_missing_condition():
     with pytest.raises(InputError, match="Reynolds number 4e5"):
         polar_figure(handmade_points(), ["s-a"], reynolds=4e5)
