@@ -95,6 +95,7 @@ DESIGN_SCHEMA: dict[str, pl.DataType] = {
     "cm_c4": pl.Float64(),
     "transition_upper": pl.Float64(),
     "transition_lower": pl.Float64(),
+    "wake_curvature": pl.Boolean(),
     "l_over_d": pl.Float64(),
     "cl_max": pl.Float64(),
     "alpha_cl_max_deg": pl.Float64(),

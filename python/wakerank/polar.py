@@ -15,6 +15,9 @@ table:
   angle between two points breaks the polar into segments; nothing is interpolated across a
   gap and nothing is extrapolated. If several pairs bracket the design cl, the one at the
   lowest angle wins;
+* a value at a design cl says ``wake_curvature`` true when both points it interpolates
+  include the wake-curvature term (docs/catalog.md; a missing column or value counts as
+  true);
 * the drag bucket is the cl range spanned by the usable pre-stall points with
   cd <= 1.1 cd_min (cd_min over the same points).
 
@@ -63,8 +66,10 @@ def prepare(points: pl.LazyFrame) -> pl.LazyFrame:
     key; ``_grid`` is the index of the angle on its condition's grid.
     """
     # Sorting on a 64-bit hash of the key is much faster than on the two strings.
+    has_flag = "wake_curvature" in points.collect_schema().names()
+    flag = pl.col("wake_curvature").fill_null(True) if has_flag else pl.lit(True)
     p = (
-        points.select(_NEEDED)
+        points.select(*_NEEDED, flag.alias("wake_curvature"))
         .with_columns(pl.struct(POLAR_KEY).hash(seed=0).alias("_key"))
         .sort(["_key", "alpha_deg"])
     )
@@ -125,7 +130,8 @@ def polar_features(prepared: pl.LazyFrame) -> pl.LazyFrame:
 
 
 def at_design_cl(prepared: pl.LazyFrame, design_cl: Sequence[float]) -> pl.LazyFrame:
-    """Per polar and design cl: interpolated alpha_deg, cd, cm_c4 and transition locations.
+    """Per polar and design cl: interpolated alpha_deg, cd, cm_c4 and transition locations,
+    and whether both points interpolated include the wake-curvature term.
 
     Polars that do not bracket a design cl with a usable pair give no row for it.
     """
@@ -133,7 +139,7 @@ def at_design_cl(prepared: pl.LazyFrame, design_cl: Sequence[float]) -> pl.LazyF
     if not targets:
         raise ValueError("design cl: give at least one lift coefficient")
     same_polar = pl.col("_polar").shift(-1) == pl.col("_polar")
-    nxt = {name: pl.col(name).shift(-1) for name in [*INTERPOLATED, "cl"]}
+    nxt = {name: pl.col(name).shift(-1) for name in [*INTERPOLATED, "cl", "wake_curvature"]}
     pairs = prepared.with_columns(
         (same_polar & pl.col("_pre_stall").shift(-1)).fill_null(False).alias("_next_ok"),
         (pl.col("_grid").shift(-1) == pl.col("_grid") + 1).alias("_adjacent"),
@@ -156,8 +162,11 @@ def at_design_cl(prepared: pl.LazyFrame, design_cl: Sequence[float]) -> pl.LazyF
         (pl.col(name) + fraction * (pl.col(f"_next_{name}") - pl.col(name))).alias(name)
         for name in INTERPOLATED
     ]
+    full_model = (pl.col("wake_curvature") & pl.col("_next_wake_curvature")).alias(
+        "wake_curvature"
+    )
     return (
-        joined.select(*POLAR_KEY, "design_cl", *interpolated)
+        joined.select(*POLAR_KEY, "design_cl", *interpolated, full_model)
         .sort([*POLAR_KEY, "design_cl", "alpha_deg"])
         .group_by([*POLAR_KEY, "design_cl"], maintain_order=True)
         .first()

@@ -19,7 +19,14 @@ from wakerank.catalog import Catalog, open_catalog
 from wakerank.errors import InputError
 
 #: Values interpolated at each design cl and shown per design point, with their column stem.
-PER_DESIGN_POINT = ("alpha_deg", "cd", "cm_c4", "transition_upper", "transition_lower")
+PER_DESIGN_POINT = (
+    "alpha_deg",
+    "cd",
+    "cm_c4",
+    "transition_upper",
+    "transition_lower",
+    "wake_curvature",
+)
 
 #: Relative tolerance when matching a requested Reynolds or Mach number to the catalog's.
 MATCH_TOLERANCE = 1e-6

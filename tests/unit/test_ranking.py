@@ -114,6 +114,27 @@ def test_cd_at_design_cl_interpolates_only_inside_segments(tmp_path):
     assert shortlist["rank"].to_list() == [1, 2, 3]
 
 
+def test_design_point_says_whether_a_first_order_wake_point_took_part(tmp_path):
+    # docs/catalog.md: wake_curvature at a design cl is true only when both points it
+    # interpolates include the wake-curvature term. A's point at 4 degrees is first-order.
+    catalog = _catalog(tmp_path)
+    for part in (catalog / "points").glob("*.parquet"):
+        frame = pl.read_parquet(part)
+        first_order = (pl.col("section_id") == "A") & (pl.col("alpha_deg") == 4.0)
+        frame.with_columns(wake_curvature=~first_order).write_parquet(part)
+    table = rank(catalog, cl=[0.45, 0.55], top=None).filter(pl.col("section_id") == "A")
+    row = table.row(0, named=True)
+    assert row["wake_curvature_at_cl_0.45"]  # 2.5 degrees: points at 2 and 3 degrees
+    assert not row["wake_curvature_at_cl_0.55"]  # 3.5 degrees: points at 3 and 4 degrees
+    # The rank command marks such a row and says what the mark means.
+    from typer.testing import CliRunner
+    from wakerank.cli import app
+
+    result = CliRunner().invoke(app, ["rank", str(catalog), "--cl", "0.55"])
+    assert result.exit_code == 0, result.output
+    assert "first-order wake" in result.output and "*" in result.output
+
+
 def test_stalled_polar_uses_the_branch_below_cl_max(tmp_path):
     # 0.45 is met twice on C: at 2.5 degrees (attached) and 4 degrees (past stall).
     shortlist = rank(_catalog(tmp_path), cl=0.45, top=None)
