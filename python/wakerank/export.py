@@ -21,6 +21,7 @@ import numpy as np
 import polars as pl
 
 from wakerank.errors import InputError
+from wakerank.ranking import PER_DESIGN_POINT
 from wakerank.wall_spacing import SKIN_FRICTION_CORRELATION, wall_spacing
 
 #: Identifier of the case-file format written here.
@@ -158,6 +159,7 @@ def design_point_entry(row: dict[str, Any], y_plus: float) -> dict[str, Any]:
             "cd": cd,
             "cm_c4": _number_or_none(row, "cm_c4"),
             "l_over_d": _number_or_none(row, "l_over_d"),
+            "full_model": None if row.get("wake_curvature") is None else bool(row["wake_curvature"]),
         },
         "first_cell": {
             "y_plus": spacing.y_plus,
@@ -274,8 +276,6 @@ def _safe_folder(section_id: str) -> str:
 
 
 
-#: Values the ranking gives per design cl, as ``<name>_at_cl_<cl>`` columns of a shortlist.
-PER_DESIGN_POINT = ("alpha_deg", "cd", "cm_c4", "transition_upper", "transition_lower")
 #: Condition columns carried from a shortlist row into each of its design points.
 CONDITION_KEYS = ("section_id", "condition_id", "reynolds", "mach", "n_factor", "transition")
 _AT_CL = re.compile(r"^cd_at_cl_(.+)$")

@@ -75,6 +75,7 @@ def _shortlist(section_id: str) -> pl.DataFrame:
             "cm_c4_at_cl_0.55": [-0.002],
             "transition_upper_at_cl_0.55": [0.22],
             "transition_lower_at_cl_0.55": [0.71],
+            "wake_curvature_at_cl_0.55": [False],
         }
     )
 
@@ -100,6 +101,10 @@ def test_case_file_validates_against_its_schema(tmp_path):
     assert case["design_points"][1]["predicted"]["cd"] == 0.0079
     assert case["design_points"][1]["transition"]["upper_x"] == 0.22
     assert case["design_points"][1]["alpha_deg"] == 5.0
+    # Which model the screening values came from (docs/export.md): unknown at 0.4 (no column),
+    # first-order wake at 0.55.
+    assert case["design_points"][0]["predicted"]["full_model"] is None
+    assert case["design_points"][1]["predicted"]["full_model"] is False
     first = case["design_points"][0]["first_cell"]
     assert first["height"] == pytest.approx(wall_spacing(8e5).first_cell_height)
     coords = np.loadtxt(folder / "coordinates.csv", delimiter=",", skiprows=1)
