@@ -53,7 +53,7 @@ fn main() {
         ok += r.converged as usize;
         println!(
             "alpha {:6.2} cl {:8.5} cd {:9.6} squire_young {:9.6} friction+pressure {:9.6} \
-             cm_c4 {:8.5} transition {:6.4}/{:6.4} converged {} iterations {} residual {:.1e} separation {:?}/{:?}",
+             cm_c4 {:8.5} transition {:6.4}/{:6.4} converged {} iterations {} residual {:.1e} separation {:?}/{:?} curvature {}",
             r.alpha_deg,
             r.cl,
             r.cd,
@@ -66,7 +66,8 @@ fn main() {
             r.iterations,
             r.residual,
             r.separation_upper.map(|x| (x * 1e4).round() / 1e4),
-            r.separation_lower.map(|x| (x * 1e4).round() / 1e4)
+            r.separation_lower.map(|x| (x * 1e4).round() / 1e4),
+            r.wake_curvature
         );
     }
     println!(

@@ -138,7 +138,18 @@ pub(crate) fn sweep(
         };
         for (k, &index) in indices.iter().enumerate() {
             let alpha = alpha_deg[index];
-            let row = match solve_with_continuation(model, alpha, settings, warm.as_ref()) {
+            let mut solved = solve_with_continuation(model, alpha, settings, warm.as_ref());
+            if pass == 0 && k == 0 && !solved.as_ref().is_some_and(|(_, s)| s.converged) {
+                // A sweep that starts away from 0° (its angle nearest 0° failed cold): approach
+                // that angle from 0° as a sweep from 0° would.
+                if let Some(approach) = approach_from_zero(model, alpha, settings) {
+                    let again = solve_with_continuation(model, alpha, settings, Some(&approach));
+                    if again.as_ref().is_some_and(|(_, s)| s.converged) {
+                        solved = again;
+                    }
+                }
+            }
+            let row = match solved {
                 Some((case, solution)) => {
                     let row = polar_row(&case, &solution, settings);
                     if solution.converged {
@@ -279,6 +290,32 @@ fn warm_newton_with_continuation(
     continuation(alpha_deg, warm, first, attempt)
 }
 
+/// Largest step between the intermediate angles by which an angle away from 0° is approached
+/// from 0° (degrees).
+const APPROACH_STEP_DEG: f64 = 2.0;
+
+/// The last converged of the angles 0°, … (steps of at most `APPROACH_STEP_DEG`) short of
+/// `alpha_deg`, each warm-started from the one before: the warm start (angle, state) with which
+/// an angle far from 0° is solved as a sweep from 0° would reach it. None when none converges
+/// or `alpha_deg` is within one step of 0°.
+fn approach_from_zero(
+    model: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+) -> Option<(f64, WarmStart)> {
+    let steps = (alpha_deg.abs() / APPROACH_STEP_DEG).ceil() as usize;
+    let mut warm: Option<(f64, WarmStart)> = None;
+    for k in 0..steps {
+        let a = alpha_deg * k as f64 / steps as f64;
+        if let Some((_, s)) = solve_angle(model, a, settings, warm.as_ref().map(|w| &w.1)) {
+            if s.converged {
+                warm = Some((a, s.warm_start()));
+            }
+        }
+    }
+    warm
+}
+
 /// The polar row and stations of one angle. Angles away from 0° are approached through a
 /// few warm-started intermediate angles (steps of at most 2°), as a sweep would.
 pub fn boundary_layer_stations(
@@ -288,16 +325,7 @@ pub fn boundary_layer_stations(
 ) -> Result<ViscousAnalysis> {
     settings.validate()?;
     let model = SectionModel::new(section, settings)?;
-    let steps = (alpha_deg.abs() / 2.0).ceil() as usize;
-    let mut warm: Option<WarmStart> = None;
-    for k in 0..steps {
-        let a = alpha_deg * k as f64 / steps as f64;
-        if let Some((_, s)) = solve_angle(&model, a, settings, warm.as_ref()) {
-            if s.converged {
-                warm = Some(s.warm_start());
-            }
-        }
-    }
+    let warm = approach_from_zero(&model, alpha_deg, settings).map(|(_, w)| w);
     match solve_angle_or_first_order(&model, alpha_deg, settings, warm.as_ref()) {
         Some((case, solution)) => Ok(ViscousAnalysis {
             row: polar_row(&case, &solution, settings),

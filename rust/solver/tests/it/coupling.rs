@@ -240,8 +240,8 @@ fn an_angle_alone_gives_the_same_row_as_inside_a_sweep() {
 #[test]
 fn rows_past_the_full_models_reach_fall_back_to_the_first_order_wake() {
     // Our design (docs/method.md, "Wake curvature"): where the full model has no converged
-    // solution (the E387 of NASA TM-4062 at Re 2e5 past 7 degrees, a wake about a tenth of the
-    // chord thick), the row is the converged solution without the curvature term, flagged; it
+    // solution (the E387 of NASA TM-4062 at Re 2e5 from about 8 degrees, a wake about a tenth of
+    // the chord thick), the row is the converged solution without the curvature term, flagged; it
     // is the same solution a sweep without the term reaches (common practice: one set of
     // discrete equations converged to 1e-8, the same answer from either start).
     use wakerank_solver::geometry::coordinates::parse_coordinates_normalised;
@@ -257,10 +257,44 @@ fn rows_past_the_full_models_reach_fall_back_to_the_first_order_wake() {
     let first_order = analyze_viscous(&section, &alphas, &first_order_settings).unwrap();
     assert!(full.iter().all(|r| r.converged));
     assert!(full[0].wake_curvature && full[1].wake_curvature);
+    assert!(
+        !full[3].wake_curvature,
+        "9 degrees: the full model has no converged solution"
+    );
     assert!(!first_order.iter().any(|r| r.wake_curvature));
-    for (a, b) in full.iter().zip(&first_order).skip(2) {
-        assert!(!a.wake_curvature, "alpha {}", a.alpha_deg);
+    for (a, b) in full
+        .iter()
+        .zip(&first_order)
+        .filter(|(a, _)| !a.wake_curvature)
+    {
         assert!((a.cl / b.cl - 1.0).abs() < 1e-4, "cl {} vs {}", a.cl, b.cl);
         assert!((a.cd / b.cd - 1.0).abs() < 1e-4, "cd {} vs {}", a.cd, b.cd);
+    }
+}
+
+#[test]
+fn low_reynolds_points_converge_across_stagnation_point_moves() {
+    // The robustness target (95 % of the family sweep; docs/validation.md): NACA 4415
+    // at Re 2e5, 11 and 12 degrees, failed until the stations away from the stagnation point
+    // kept their own state when the point moved to another node (`keep_downstream_states`).
+    let settings = ViscousSettings::new(2e5);
+    let section = naca::from_designation("4415", false, 200).unwrap();
+    let alphas: Vec<f64> = (0..=12).map(f64::from).collect();
+    let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
+    for row in &rows {
+        assert!(row.converged, "NACA 4415 at {} deg", row.alpha_deg);
+    }
+}
+
+#[test]
+fn a_sweep_starting_far_from_zero_lift_is_approached_from_zero() {
+    // Our design (docs/method.md, "Sweeps and warm starts"): a sweep's first angle that fails
+    // from the inviscid flow is approached from 0 degrees in steps of at most 2 degrees, as a
+    // sweep from 0 would. NACA 4415 at Re 2e5 asked for 8-10 degrees only: none converged
+    // before.
+    let section = naca::from_designation("4415", false, 200).unwrap();
+    let rows = analyze_viscous(&section, &[8.0, 9.0, 10.0], &ViscousSettings::new(2e5)).unwrap();
+    for row in &rows {
+        assert!(row.converged, "NACA 4415 at {} deg", row.alpha_deg);
     }
 }

@@ -287,7 +287,8 @@ impl<'a> CoupledProblem<'a> {
     }
 
     /// Re-locates the stagnation point for the current mass defects; a change of split re-maps
-    /// the stations onto the new one.
+    /// the stations near the stagnation point onto the new split and keeps every other node's
+    /// state (`warm_start::keep_downstream_states`).
     fn resplit(&self, layout: &Layout, unknowns: &mut Unknowns) -> Result<Layout> {
         let m_full = layout.node_mass_defect(self.case, &unknowns.m);
         let new_layout = self.layout_for(&m_full, layout.split.stagnation.node)?;
@@ -295,7 +296,10 @@ impl<'a> CoupledProblem<'a> {
             || new_layout.split.lower.nodes != layout.split.lower.nodes
         {
             let state = output::newton_state(layout, unknowns, self.case);
-            *unknowns = self.map_state(&new_layout, &state);
+            let previous = std::mem::replace(unknowns, self.map_state(&new_layout, &state));
+            warm_start::keep_downstream_states(&new_layout, unknowns, layout, &previous);
+            let ue = new_layout.edge_speeds(&unknowns.m);
+            self.place_transition_points(&new_layout, unknowns, &ue);
         }
         Ok(new_layout)
     }

@@ -12,7 +12,8 @@ use super::Unknowns;
 
 /// Fixed-point passes that set the mass defects of a mapped state from its θ and H.
 const MAPPING_PASSES: usize = 4;
-/// Stations after a side's start that the later passes adjust.
+/// Stations after a side's start that the later passes adjust, and that a move of the
+/// stagnation point within one case re-maps by arc length (`keep_downstream_states`).
 const NEAR_START_STATIONS: usize = 4;
 
 /// The states along one side (or the wake), ordered downstream.
@@ -190,5 +191,48 @@ impl NewtonState {
             }
         }
         unknowns
+    }
+}
+
+/// After the stagnation point of one case has moved to another node: every station beyond the
+/// first `NEAR_START_STATIONS` of its side (and every wake station) whose node was on the same
+/// side before, in the same regime, gets that node's previous unknowns back instead of the
+/// state mapped by arc length from the new stagnation point. Away from the leading edge the
+/// layer belongs to the surface, not to the distance from the stagnation point: shifting a
+/// steep trailing-edge state by the point's movement (a fraction of a panel) upset the edge
+/// speeds there enough to wreck the iterate (family sweep 224 → 227 of 228 converged;
+/// docs/validation.md, robustness).
+pub(super) fn keep_downstream_states(
+    layout: &Layout,
+    unknowns: &mut Unknowns,
+    previous_layout: &Layout,
+    previous: &Unknowns,
+) {
+    let ranges = |l: &Layout| [l.upper.clone(), l.lower.clone(), l.wake.clone()];
+    let node_count = layout
+        .nodes
+        .iter()
+        .chain(&previous_layout.nodes)
+        .max()
+        .map_or(0, |n| n + 1);
+    let sides = ranges(layout).into_iter().zip(ranges(previous_layout));
+    for (side, (range, old_range)) in sides.enumerate() {
+        let skip = if side == 2 { 0 } else { NEAR_START_STATIONS };
+        let mut old_station = vec![None; node_count];
+        for j in old_range.skip(skip) {
+            old_station[previous_layout.nodes[j]] = Some(j);
+        }
+        for k in range.skip(skip) {
+            let Some(j) = old_station[layout.nodes[k]] else {
+                continue;
+            };
+            if previous.regime[j] != unknowns.regime[k] {
+                continue;
+            }
+            unknowns.ln_theta[k] = previous.ln_theta[j];
+            unknowns.third[k] = previous.third[j];
+            unknowns.m[k] = previous.m[j];
+            unknowns.transition[k] = previous.transition[j];
+        }
     }
 }
