@@ -167,11 +167,57 @@ pub(crate) fn sweep(
         }
     }
     repair(model, alpha_deg, settings, &order, &mut rows, &mut warm_of);
+    beyond_the_ends(model, alpha_deg, settings, &order, &mut rows, &warm_of);
     first_order_rows(model, alpha_deg, settings, &order, &mut rows, &warm_of);
     rows.into_iter()
         .zip(alpha_deg)
         .map(|(r, &a)| r.unwrap_or_else(|| ViscousRow::failed(a, 0, f64::NAN)))
         .collect()
+}
+
+/// An end angle of the sweep (lowest or highest) that failed, next to a converged one: the
+/// angle one step beyond it (the spacing to that neighbour) is solved from the neighbour (with
+/// continuation), and the end angle again from there. A failed interior angle has converged
+/// neighbours on both sides for the repair pass; an end angle has only one, and a point that
+/// fails from below is often reached from above (NACA 0012 at Re 2e5: +6° converges from 7°
+/// where it failed from 5°).
+fn beyond_the_ends(
+    model: &SectionModel,
+    alpha_deg: &[f64],
+    settings: &ViscousSettings,
+    order: &[usize],
+    rows: &mut [Option<ViscousRow>],
+    warm_of: &[Option<WarmStart>],
+) {
+    let n = order.len();
+    if n < 2 {
+        return;
+    }
+    let converged =
+        |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
+    for (end, inner) in [(order[0], order[1]), (order[n - 1], order[n - 2])] {
+        if converged(rows, end) {
+            continue;
+        }
+        let Some(warm) = warm_of[inner].clone() else {
+            continue;
+        };
+        let (a_end, a_inner) = (alpha_deg[end], alpha_deg[inner]);
+        let beyond = a_end + (a_end - a_inner);
+        let Some((_, helper)) =
+            solve_with_continuation(model, beyond, settings, Some(&(a_inner, warm)))
+                .filter(|(_, s)| s.converged)
+        else {
+            continue;
+        };
+        if let Some((case, solution)) =
+            warm_newton_with_continuation(model, a_end, settings, (beyond, helper.warm_start()))
+        {
+            if solution.converged {
+                rows[end] = Some(polar_row(&case, &solution, settings));
+            }
+        }
+    }
 }
 
 /// Repair pass: an angle that failed is tried again from each converged neighbour (in α order)
