@@ -166,153 +166,171 @@ pub(crate) fn sweep(
             rows[index] = Some(row);
         }
     }
-    repair(model, alpha_deg, settings, &order, &mut rows, &mut warm_of);
-    beyond_the_ends(model, alpha_deg, settings, &order, &mut rows, &warm_of);
-    first_order_rows(model, alpha_deg, settings, &order, &mut rows, &warm_of);
+    let grid = SweepGrid {
+        model,
+        alpha_deg,
+        settings,
+        order: &order,
+    };
+    grid.repair(&mut rows, &mut warm_of);
+    grid.beyond_the_ends(&mut rows, &warm_of);
+    grid.first_order_rows(&mut rows, &warm_of);
     rows.into_iter()
         .zip(alpha_deg)
         .map(|(r, &a)| r.unwrap_or_else(|| ViscousRow::failed(a, 0, f64::NAN)))
         .collect()
 }
 
-/// An end angle of the sweep (lowest or highest) that failed, next to a converged one: the
-/// angle one step beyond it (the spacing to that neighbour) is solved from the neighbour (with
-/// continuation), and the end angle again from there. A failed interior angle has converged
-/// neighbours on both sides for the repair pass; an end angle has only one, and a point that
-/// fails from below is often reached from above (NACA 0012 at Re 2e5: +6° converges from 7°
-/// where it failed from 5°).
-fn beyond_the_ends(
-    model: &SectionModel,
-    alpha_deg: &[f64],
-    settings: &ViscousSettings,
-    order: &[usize],
-    rows: &mut [Option<ViscousRow>],
-    warm_of: &[Option<WarmStart>],
-) {
-    let n = order.len();
-    if n < 2 {
-        return;
-    }
-    let converged =
-        |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
-    for (end, inner) in [(order[0], order[1]), (order[n - 1], order[n - 2])] {
-        if converged(rows, end) {
-            continue;
-        }
-        let Some(warm) = warm_of[inner].clone() else {
-            continue;
-        };
-        let (a_end, a_inner) = (alpha_deg[end], alpha_deg[inner]);
-        let beyond = a_end + (a_end - a_inner);
-        let Some((_, helper)) =
-            solve_with_continuation(model, beyond, settings, Some(&(a_inner, warm)))
-                .filter(|(_, s)| s.converged)
-        else {
-            continue;
-        };
-        if let Some((case, solution)) =
-            warm_newton_with_continuation(model, a_end, settings, (beyond, helper.warm_start()))
-        {
-            if solution.converged {
-                rows[end] = Some(polar_row(&case, &solution, settings));
-            }
-        }
-    }
+/// What the passes after the sweep work on: the section, the angles (in the caller's order),
+/// the settings and the angles' indices in ascending α.
+#[derive(Clone, Copy)]
+struct SweepGrid<'a> {
+    model: &'a SectionModel,
+    alpha_deg: &'a [f64],
+    settings: &'a ViscousSettings,
+    order: &'a [usize],
 }
 
-/// Repair pass: an angle that failed is tried again from each converged neighbour (in α order)
-/// it has not yet been tried from — the Newton iteration from that neighbour's iterate, through
-/// intermediate angles when needed — until no attempt succeeds. A sweep whose starting angle
-/// failed otherwise solves everything on one side of it cold. The order is fixed, so the
-/// result does not depend on anything but the inputs.
-fn repair(
-    model: &SectionModel,
-    alpha_deg: &[f64],
-    settings: &ViscousSettings,
-    order: &[usize],
-    rows: &mut [Option<ViscousRow>],
-    warm_of: &mut [Option<WarmStart>],
-) {
-    let converged =
-        |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
-    let mut tried: std::collections::HashSet<(usize, usize)> = std::collections::HashSet::new();
-    loop {
-        let mut progress = false;
-        for pos in 0..order.len() {
-            let index = order[pos];
-            if converged(rows, index) {
+impl SweepGrid<'_> {
+    /// An end angle of the sweep (lowest or highest) that failed, next to a converged one: the
+    /// angle one step beyond it (the spacing to that neighbour) is solved from the neighbour (with
+    /// continuation), and the end angle again from there. A failed interior angle has converged
+    /// neighbours on both sides for the repair pass; an end angle has only one, and a point that
+    /// fails from below is often reached from above (NACA 0012 at Re 2e5: +6° converges from 7°
+    /// where it failed from 5°).
+    fn beyond_the_ends(&self, rows: &mut [Option<ViscousRow>], warm_of: &[Option<WarmStart>]) {
+        let SweepGrid {
+            model,
+            alpha_deg,
+            settings,
+            order,
+        } = *self;
+        let n = order.len();
+        if n < 2 {
+            return;
+        }
+        let converged =
+            |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
+        for (end, inner) in [(order[0], order[1]), (order[n - 1], order[n - 2])] {
+            if converged(rows, end) {
                 continue;
             }
-            let neighbours = [
-                pos.checked_sub(1),
-                Some(pos + 1).filter(|&p| p < order.len()),
-            ];
-            for nb in neighbours.into_iter().flatten().map(|p| order[p]) {
-                let Some(state) = warm_of[nb].clone() else {
-                    continue;
-                };
-                if !tried.insert((index, nb)) {
+            let Some(warm) = warm_of[inner].clone() else {
+                continue;
+            };
+            let (a_end, a_inner) = (alpha_deg[end], alpha_deg[inner]);
+            let beyond = a_end + (a_end - a_inner);
+            let Some((_, helper)) =
+                solve_with_continuation(model, beyond, settings, Some(&(a_inner, warm)))
+                    .filter(|(_, s)| s.converged)
+            else {
+                continue;
+            };
+            if let Some((case, solution)) =
+                warm_newton_with_continuation(model, a_end, settings, (beyond, helper.warm_start()))
+            {
+                if solution.converged {
+                    rows[end] = Some(polar_row(&case, &solution, settings));
+                }
+            }
+        }
+    }
+
+    /// Repair pass: an angle that failed is tried again from each converged neighbour (in α order)
+    /// it has not yet been tried from — the Newton iteration from that neighbour's iterate, through
+    /// intermediate angles when needed — until no attempt succeeds. A sweep whose starting angle
+    /// failed otherwise solves everything on one side of it cold. The order is fixed, so the
+    /// result does not depend on anything but the inputs.
+    fn repair(&self, rows: &mut [Option<ViscousRow>], warm_of: &mut [Option<WarmStart>]) {
+        let SweepGrid {
+            model,
+            alpha_deg,
+            settings,
+            order,
+        } = *self;
+        let converged =
+            |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
+        let mut tried: std::collections::HashSet<(usize, usize)> = std::collections::HashSet::new();
+        loop {
+            let mut progress = false;
+            for pos in 0..order.len() {
+                let index = order[pos];
+                if converged(rows, index) {
                     continue;
                 }
-                let alpha = alpha_deg[index];
-                if let Some((case, solution)) =
-                    warm_newton_with_continuation(model, alpha, settings, (alpha_deg[nb], state))
-                {
-                    if solution.converged {
-                        rows[index] = Some(polar_row(&case, &solution, settings));
-                        warm_of[index] = Some(solution.warm_start());
-                        progress = true;
-                        break;
+                let neighbours = [
+                    pos.checked_sub(1),
+                    Some(pos + 1).filter(|&p| p < order.len()),
+                ];
+                for nb in neighbours.into_iter().flatten().map(|p| order[p]) {
+                    let Some(state) = warm_of[nb].clone() else {
+                        continue;
+                    };
+                    if !tried.insert((index, nb)) {
+                        continue;
+                    }
+                    let alpha = alpha_deg[index];
+                    if let Some((case, solution)) = warm_newton_with_continuation(
+                        model,
+                        alpha,
+                        settings,
+                        (alpha_deg[nb], state),
+                    ) {
+                        if solution.converged {
+                            rows[index] = Some(polar_row(&case, &solution, settings));
+                            warm_of[index] = Some(solution.warm_start());
+                            progress = true;
+                            break;
+                        }
                     }
                 }
             }
-        }
-        if !progress {
-            break;
+            if !progress {
+                break;
+            }
         }
     }
-}
 
-/// Last resort after the repair pass: each angle still unconverged is solved with the
-/// first-order wake ([`first_order_wake_solution`]) from its converged neighbour below, else
-/// above (in α order), with the continuation in α of [`continuation`]. The neighbours are the
-/// full-model solutions of the passes before, so the order of this pass does not matter.
-fn first_order_rows(
-    model: &SectionModel,
-    alpha_deg: &[f64],
-    settings: &ViscousSettings,
-    order: &[usize],
-    rows: &mut [Option<ViscousRow>],
-    warm_of: &[Option<WarmStart>],
-) {
-    if !settings.wake_curvature {
-        return;
-    }
-    let attempt = |alpha: f64, start: Option<&WarmStart>| -> Attempt {
-        let case = CaseModel::new(model, alpha, settings).ok()?;
-        let solution = first_order_wake_solution(&case, settings, start)?;
-        Some((case, solution))
-    };
-    for pos in 0..order.len() {
-        let index = order[pos];
-        if rows[index].as_ref().is_some_and(|r| r.converged) {
-            continue;
+    /// Last resort after the repair pass: each angle still unconverged is solved with the
+    /// first-order wake ([`first_order_wake_solution`]) from its converged neighbour below, else
+    /// above (in α order), with the continuation in α of [`continuation`]. The neighbours are the
+    /// full-model solutions of the passes before, so the order of this pass does not matter.
+    fn first_order_rows(&self, rows: &mut [Option<ViscousRow>], warm_of: &[Option<WarmStart>]) {
+        let SweepGrid {
+            model,
+            alpha_deg,
+            settings,
+            order,
+        } = *self;
+        if !settings.wake_curvature {
+            return;
         }
-        let alpha = alpha_deg[index];
-        let neighbour = [
-            pos.checked_sub(1),
-            Some(pos + 1).filter(|&p| p < order.len()),
-        ]
-        .into_iter()
-        .flatten()
-        .find_map(|p| warm_of[order[p]].clone().map(|w| (alpha_deg[order[p]], w)));
-        let first = attempt(alpha, neighbour.as_ref().map(|n| &n.1));
-        let solved = match neighbour {
-            Some(n) => continuation(alpha, n, first, |a, start| attempt(a, Some(start))),
-            None => first,
+        let attempt = |alpha: f64, start: Option<&WarmStart>| -> Attempt {
+            let case = CaseModel::new(model, alpha, settings).ok()?;
+            let solution = first_order_wake_solution(&case, settings, start)?;
+            Some((case, solution))
         };
-        if let Some((case, solution)) = solved.filter(|(_, s)| s.converged) {
-            rows[index] = Some(polar_row(&case, &solution, settings));
+        for pos in 0..order.len() {
+            let index = order[pos];
+            if rows[index].as_ref().is_some_and(|r| r.converged) {
+                continue;
+            }
+            let alpha = alpha_deg[index];
+            let neighbour = [
+                pos.checked_sub(1),
+                Some(pos + 1).filter(|&p| p < order.len()),
+            ]
+            .into_iter()
+            .flatten()
+            .find_map(|p| warm_of[order[p]].clone().map(|w| (alpha_deg[order[p]], w)));
+            let first = attempt(alpha, neighbour.as_ref().map(|n| &n.1));
+            let solved = match neighbour {
+                Some(n) => continuation(alpha, n, first, |a, start| attempt(a, Some(start))),
+                None => first,
+            };
+            if let Some((case, solution)) = solved.filter(|(_, s)| s.converged) {
+                rows[index] = Some(polar_row(&case, &solution, settings));
+            }
         }
     }
 }
