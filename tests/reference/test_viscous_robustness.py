@@ -83,3 +83,13 @@ def test_e387_laminar_separation_bubble_is_resolved(e387, reynolds, alpha):
     assert regime[first] == "laminar"
     assert last + 1 < len(cf), "the layer never reattaches"
     assert cf[last + 1] >= 0 and regime[last + 1] == "turbulent"
+
+
+def test_e387_solve_for_cl_reaches_the_lift_a_sweep_reaches(e387):
+    # A sweep at Re 2e5 converges beyond cl 1.2 (first-order wake from about 9 degrees); the
+    # target-cl search has the same attempts, continuation and fall-back, so it gets there too
+    # (it stopped at cl 0.995 before; docs/method.md, "Sweeps and warm starts").
+    row = wr.solve_for_cl(e387, cl=1.2, reynolds=2e5)
+    assert row["converged"][0]
+    assert abs(row["cl"][0] - 1.2) < 1e-3
+    assert not row["wake_curvature"][0]

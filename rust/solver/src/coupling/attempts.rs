@@ -138,21 +138,3 @@ pub(crate) fn first_order_wake_solution(
     };
     solve_case_model(case, &first_order, warm_start).filter(|solution| solution.converged)
 }
-
-/// [`solve_angle`], and where that converges nothing, [`first_order_wake_solution`]: for
-/// single-angle entries (stations, target cl), the same last resort a sweep takes.
-pub(crate) fn solve_angle_or_first_order(
-    section: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm_start: Option<&WarmStart>,
-) -> Option<(CaseModel, CoupledSolution)> {
-    let (case, solution) = solve_angle(section, alpha_deg, settings, warm_start)?;
-    if solution.converged {
-        return Some((case, solution));
-    }
-    match first_order_wake_solution(&case, settings, warm_start) {
-        Some(first_order) => Some((case, first_order)),
-        None => Some((case, solution)),
-    }
-}

@@ -7,7 +7,7 @@ use crate::geometry::Section;
 
 use crate::inviscid::compressibility::karman_tsien_cp as karman_tsien;
 
-use super::attempts::{first_order_wake_solution, solve_angle, solve_angle_or_first_order};
+use super::attempts::{first_order_wake_solution, solve_angle};
 use super::forces::{
     far_wake_drag, friction_drag, integrate_pressure, squire_young, wetted_pressure_drag,
 };
@@ -52,6 +52,45 @@ pub(crate) fn solve_with_continuation(
 
 /// Result of one attempt at one angle.
 type Attempt = Option<(CaseModel, CoupledSolution)>;
+
+/// The first-order-wake solution at `alpha_deg` ([`first_order_wake_solution`]) from `warm` =
+/// (angle, state), with the continuation in α of [`continuation`]; only a converged one.
+fn first_order_with_continuation(
+    model: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm: Option<&(f64, WarmStart)>,
+) -> Attempt {
+    let attempt = |alpha: f64, start: Option<&WarmStart>| -> Attempt {
+        let case = CaseModel::new(model, alpha, settings).ok()?;
+        let solution = first_order_wake_solution(&case, settings, start)?;
+        Some((case, solution))
+    };
+    let first = attempt(alpha_deg, warm.map(|w| &w.1));
+    match warm {
+        Some(w) => continuation(alpha_deg, w.clone(), first, |a, start| {
+            attempt(a, Some(start))
+        }),
+        None => first,
+    }
+    .filter(|(_, s)| s.converged)
+}
+
+/// [`solve_with_continuation`], and where that converges nothing, the first-order-wake
+/// solution from the same warm start: for the single-angle entries (stations, target cl) the
+/// same attempts, continuation and last resort a sweep has.
+pub(crate) fn solve_with_continuation_or_first_order(
+    model: &SectionModel,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm: Option<&(f64, WarmStart)>,
+) -> Attempt {
+    let solved = solve_with_continuation(model, alpha_deg, settings, warm);
+    if solved.as_ref().is_some_and(|(_, s)| s.converged) {
+        return solved;
+    }
+    first_order_with_continuation(model, alpha_deg, settings, warm).or(solved)
+}
 
 /// Continuation in α after the attempt `first` at `alpha_deg` from `warm` = (angle, start):
 /// when `first` did not converge, the step from the warm angle is halved (up to two levels)
@@ -305,11 +344,6 @@ impl SweepGrid<'_> {
         if !settings.wake_curvature {
             return;
         }
-        let attempt = |alpha: f64, start: Option<&WarmStart>| -> Attempt {
-            let case = CaseModel::new(model, alpha, settings).ok()?;
-            let solution = first_order_wake_solution(&case, settings, start)?;
-            Some((case, solution))
-        };
         for pos in 0..order.len() {
             let index = order[pos];
             if rows[index].as_ref().is_some_and(|r| r.converged) {
@@ -323,12 +357,9 @@ impl SweepGrid<'_> {
             .into_iter()
             .flatten()
             .find_map(|p| warm_of[order[p]].clone().map(|w| (alpha_deg[order[p]], w)));
-            let first = attempt(alpha, neighbour.as_ref().map(|n| &n.1));
-            let solved = match neighbour {
-                Some(n) => continuation(alpha, n, first, |a, start| attempt(a, Some(start))),
-                None => first,
-            };
-            if let Some((case, solution)) = solved.filter(|(_, s)| s.converged) {
+            if let Some((case, solution)) =
+                first_order_with_continuation(model, alpha, settings, neighbour.as_ref())
+            {
                 rows[index] = Some(polar_row(&case, &solution, settings));
             }
         }
@@ -389,8 +420,8 @@ pub fn boundary_layer_stations(
 ) -> Result<ViscousAnalysis> {
     settings.validate()?;
     let model = SectionModel::new(section, settings)?;
-    let warm = approach_from_zero(&model, alpha_deg, settings).map(|(_, w)| w);
-    match solve_angle_or_first_order(&model, alpha_deg, settings, warm.as_ref()) {
+    let warm = approach_from_zero(&model, alpha_deg, settings);
+    match solve_with_continuation_or_first_order(&model, alpha_deg, settings, warm.as_ref()) {
         Some((case, solution)) => Ok(ViscousAnalysis {
             row: polar_row(&case, &solution, settings),
             stations: stations(&case, &solution),

@@ -3,10 +3,9 @@
 use crate::error::{Result, SolverError};
 use crate::geometry::Section;
 
-use super::attempts::solve_angle_or_first_order;
 use super::model::SectionModel;
 use super::settings::ViscousSettings;
-use super::sweep::polar_row;
+use super::sweep::{polar_row, solve_with_continuation_or_first_order};
 use super::ViscousRow;
 
 /// Largest |α| searched, degrees.
@@ -37,18 +36,18 @@ pub fn solve_for_cl(
     let model = SectionModel::new(section, settings)?;
     let slope_guess = 2.0 * std::f64::consts::PI * std::f64::consts::PI / 180.0;
     let mut alpha = 0.0_f64;
-    let mut warm: Option<super::iteration::WarmStart> = None;
+    let mut warm: Option<(f64, super::iteration::WarmStart)> = None;
     let mut previous: Option<(f64, f64)> = None;
     let direction = target_cl.signum();
     let mut extreme = f64::NAN;
     for _ in 0..40 {
-        let solved = solve_angle_or_first_order(&model, alpha, settings, warm.as_ref());
+        let solved = solve_with_continuation_or_first_order(&model, alpha, settings, warm.as_ref());
         let Some((case, sol)) = solved else { break };
         let row = polar_row(&case, &sol, settings);
         if !row.converged {
             break;
         }
-        warm = Some(sol.warm_start());
+        warm = Some((alpha, sol.warm_start()));
         let error = row.cl - target_cl;
         extreme = if extreme.is_nan() {
             row.cl
