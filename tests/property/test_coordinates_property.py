@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 import wakerank as wr
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 _numbers = st.one_of(
@@ -40,8 +40,15 @@ def test_random_files_never_crash(tmp_path_factory, text: str) -> None:  # type:
         pass
 
 
+# A case hypothesis found: accepted by the import, then rejected by the core's own check when
+# re-panelled (the import closed a single trailing-edge point into an unrecognised loop).
+_FOUND = [0.0] * 59
+_FOUND[0], _FOUND[3], _FOUND[57], _FOUND[58] = -0.015625, 0.015625, -0.015625, -0.0234375
+
+
 @settings(max_examples=60, deadline=None)
 @given(noise=st.lists(st.floats(min_value=-0.03, max_value=0.03), min_size=59, max_size=59))
+@example(noise=_FOUND)
 def test_perturbed_sections_never_crash(noise: list[float]) -> None:
     base = wr.Section.naca("2412", points=30)
     try:

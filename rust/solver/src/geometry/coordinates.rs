@@ -46,6 +46,10 @@ fn assemble(
     if normalise {
         normalise_to_unit_chord(&mut section);
     }
+    // What leaves here must pass the core's own check (re-panelling and the panel method start
+    // with it): closing a single trailing-edge point can turn a barely accepted loop into one
+    // that is not (found by the property test `test_perturbed_sections_never_crash`).
+    section.validate()?;
     Ok(section)
 }
 
