@@ -230,7 +230,19 @@ struct SweepGrid<'a> {
     order: &'a [usize],
 }
 
-impl SweepGrid<'_> {
+impl<'a> SweepGrid<'a> {
+    /// The grid's fields, for the passes' bodies.
+    fn parts(
+        &self,
+    ) -> (
+        &'a SectionModel,
+        &'a [f64],
+        &'a ViscousSettings,
+        &'a [usize],
+    ) {
+        (self.model, self.alpha_deg, self.settings, self.order)
+    }
+
     /// An end angle of the sweep (lowest or highest) that failed, next to a converged one: the
     /// angle one step beyond it (the spacing to that neighbour) is solved from the neighbour (with
     /// continuation), and the end angle again from there. A failed interior angle has converged
@@ -238,12 +250,7 @@ impl SweepGrid<'_> {
     /// fails from below is often reached from above (NACA 0012 at Re 2e5: +6° converges from 7°
     /// where it failed from 5°).
     fn beyond_the_ends(&self, rows: &mut [Option<ViscousRow>], warm_of: &[Option<WarmStart>]) {
-        let SweepGrid {
-            model,
-            alpha_deg,
-            settings,
-            order,
-        } = *self;
+        let (model, alpha_deg, settings, order) = self.parts();
         let n = order.len();
         if n < 2 {
             return;
@@ -281,12 +288,7 @@ impl SweepGrid<'_> {
     /// failed otherwise solves everything on one side of it cold. The order is fixed, so the
     /// result does not depend on anything but the inputs.
     fn repair(&self, rows: &mut [Option<ViscousRow>], warm_of: &mut [Option<WarmStart>]) {
-        let SweepGrid {
-            model,
-            alpha_deg,
-            settings,
-            order,
-        } = *self;
+        let (model, alpha_deg, settings, order) = self.parts();
         let converged =
             |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
         let mut tried: std::collections::HashSet<(usize, usize)> = std::collections::HashSet::new();
@@ -335,12 +337,7 @@ impl SweepGrid<'_> {
     /// above (in α order), with the continuation in α of [`continuation`]. The neighbours are the
     /// full-model solutions of the passes before, so the order of this pass does not matter.
     fn first_order_rows(&self, rows: &mut [Option<ViscousRow>], warm_of: &[Option<WarmStart>]) {
-        let SweepGrid {
-            model,
-            alpha_deg,
-            settings,
-            order,
-        } = *self;
+        let (model, alpha_deg, settings, order) = self.parts();
         if !settings.wake_curvature {
             return;
         }
