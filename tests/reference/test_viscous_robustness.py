@@ -93,3 +93,24 @@ def test_e387_solve_for_cl_reaches_the_lift_a_sweep_reaches(e387):
     assert row["converged"][0]
     assert abs(row["cl"][0] - 1.2) < 1e-3
     assert not row["wake_curvature"][0]
+
+
+@pytest.mark.parametrize("alpha", [1.0, 7.0])
+def test_reversed_flow_at_transition_is_not_reported_as_turbulent_separation(alpha):
+    # NACA 4415, Re 1e6: transition happens where the laminar layer is at the point of
+    # separating, and the first turbulent station lies in reversed flow before the layer
+    # reattaches — a transitional bubble (common practice), not the turbulent separation that
+    # `separation_upper` reports. Until version 0.4 such rows said 0.51 and 0.26, and the
+    # ranking, which leaves separated points out, lost them (docs/method.md).
+    section = wr.Section.naca("4415")
+    polar = wr.analyze(section, alpha_deg=[alpha], reynolds=1e6)
+    assert polar["converged"][0]
+    assert polar["separation_upper"][0] is None
+    stations = wr.boundary_layer(section, alpha_deg=alpha, reynolds=1e6)
+    upper = stations.filter(pl.col("side") == "upper").sort("s")
+    turbulent = upper.filter(pl.col("regime") == "turbulent")
+    # The turbulent layer starts reversed or attached and stays attached to the trailing edge
+    # once it has reattached.
+    cf = turbulent["cf"].to_numpy()
+    attached_from = int(np.argmax(cf > 0))
+    assert (cf[attached_from:] > 0).all()

@@ -288,17 +288,21 @@ impl SeparationTracker {
         }
     }
 
+    /// Records the events between consecutive stations a and b. A sign change of cf in the
+    /// interval where the layer becomes turbulent (a laminar, b turbulent) is the laminar
+    /// layer separating as it undergoes transition (the reversed-flow start of a transitional
+    /// bubble), not turbulent separation: turbulent separation needs both stations turbulent.
     pub(crate) fn observe(&mut self, a: &Station, b: &Station) {
         if a.cf > 0.0 && b.cf <= 0.0 {
             let s = zero_crossing(a.s, a.cf, b.s, b.cf);
-            match b.regime {
-                Regime::Laminar => {
+            match (a.regime, b.regime) {
+                (_, Regime::Laminar) | (Regime::Laminar, Regime::Turbulent) => {
                     self.laminar_separation.get_or_insert(s);
                 }
-                Regime::Turbulent => {
+                (_, Regime::Turbulent) => {
                     self.turbulent_separation.get_or_insert(s);
                 }
-                Regime::Wake => {}
+                (_, Regime::Wake) => {}
             }
         } else if a.cf < 0.0 && b.cf >= 0.0 && b.regime != Regime::Wake {
             self.reattachment
@@ -489,4 +493,60 @@ pub fn march_surface(
     }
 
     tracker.finish(stations, transition_s, transition_forced, all_converged)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn station(s: f64, cf: f64, regime: Regime) -> Station {
+        Station {
+            s,
+            edge_velocity: 1.0,
+            theta: 1e-3,
+            delta_star: 2e-3,
+            shape_factor: 2.0,
+            cf,
+            amplification: 0.0,
+            shear_lag: 0.0,
+            regime,
+            dissipation: 0.0,
+        }
+    }
+
+    fn events(stations: &[Station]) -> SideSolution {
+        let mut tracker = SeparationTracker::default();
+        for pair in stations.windows(2) {
+            tracker.observe(&pair[0], &pair[1]);
+        }
+        tracker.finish(stations.to_vec(), None, false, true)
+    }
+
+    #[test]
+    fn reversed_flow_at_the_turbulent_start_is_not_turbulent_separation() {
+        // Attached laminar layer, a first turbulent station in reversed flow, reattachment: a
+        // transitional bubble (common practice), so laminar separation and reattachment.
+        let side = events(&[
+            station(0.1, 2e-4, Regime::Laminar),
+            station(0.2, 1e-4, Regime::Laminar),
+            station(0.3, -1e-3, Regime::Turbulent),
+            station(0.4, 3e-3, Regime::Turbulent),
+        ]);
+        assert!(side.turbulent_separation_s.is_none());
+        let separation = side.laminar_separation_s.expect("laminar separation");
+        assert!((separation - (0.2 + 0.1 / 11.0)).abs() < 1e-12);
+        assert!(side.reattachment_s.is_some_and(|s| s > 0.3 && s < 0.4));
+    }
+
+    #[test]
+    fn turbulent_separation_lies_between_turbulent_stations() {
+        let side = events(&[
+            station(0.1, 2e-4, Regime::Laminar),
+            station(0.3, 3e-3, Regime::Turbulent),
+            station(0.8, 1e-3, Regime::Turbulent),
+            station(0.9, -1e-3, Regime::Turbulent),
+        ]);
+        assert!(side.laminar_separation_s.is_none());
+        assert!((side.turbulent_separation_s.unwrap() - 0.85).abs() < 1e-12);
+    }
 }
