@@ -152,7 +152,14 @@ impl CoupledProblem<'_> {
                         put(&laminar_interval_residual(ctx, &a, &b, sb - sa, upwinded));
                     }
                     (Regime::Laminar, _) => {
-                        let trip = layout.trips[layout.side_of(k).min(1)];
+                        let side = layout.side_of(k).min(1);
+                        // A pinned point is held at its interval's end like a trip there.
+                        let trip = match unknowns.pinned[side] {
+                            Some((node, f)) if node == layout.nodes[k] => {
+                                Some((sa + f.max(1e-9) * (sb - sa)).min(sb))
+                            }
+                            _ => layout.trips[side],
+                        };
                         let previous =
                             (involved[2] + 2 == k && regime(2) == Regime::Laminar).then(|| {
                                 let st = station_state(&vars[2], regime(2)).state;

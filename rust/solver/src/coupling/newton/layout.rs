@@ -32,6 +32,7 @@ pub(crate) enum Role {
 }
 
 /// Station order, positions and the edge-speed model of one stagnation split.
+#[derive(Clone)]
 pub(crate) struct Layout {
     /// The surface split the stations follow.
     pub split: SurfaceSplit,

@@ -70,6 +70,10 @@ pub(crate) struct Unknowns {
     /// At the first turbulent station of a side: ln θ of the laminar layer at the transition
     /// point and the point's fraction of the interval.
     pub transition: Vec<Option<[f64; 2]>>,
+    /// Per side (upper, lower): a transition point held at one end of its interval (case node
+    /// of the transition station, fraction 0 or 1) where the criterion has no root in either
+    /// neighbouring interval (`update_regimes`); cleared by any move of that side.
+    pub pinned: [Option<(usize, f64)>; 2],
 }
 
 /// Variables of a station as the residuals see them: its unknowns and its edge speed.
@@ -189,6 +193,8 @@ impl<'a> CoupledProblem<'a> {
         let (mut lowest, mut lowest_at) = (f64::INFINITY, 0);
         // Each side's last move of transition between intervals (`update_regimes`).
         let mut last_moves = [None; 2];
+        // The converged iterate from before a transition point was held at an interval end.
+        let mut unpinned: Option<(Layout, Unknowns, usize, f64)> = None;
         for iteration in 1..=MAX_NEWTON_ITERATIONS.min(self.settings.max_iterations.max(1)) {
             iterations = iteration;
             self.update_curvature_speeds(&mut layout, &unknowns, frozen.is_none());
@@ -224,10 +230,24 @@ impl<'a> CoupledProblem<'a> {
                 break;
             }
             let settled = residual < REGIME_MOVE_RESIDUAL;
-            let moved = self.update_regimes(&layout, &mut unknowns, &ue, settled, &mut last_moves);
-            if !moved && residual < NEWTON_TOLERANCE {
+            let converged_here = residual < NEWTON_TOLERANCE;
+            let before = converged_here.then(|| unknowns.clone());
+            let moved = self.update_regimes(
+                &layout,
+                &mut unknowns,
+                &ue,
+                settled,
+                converged_here,
+                &mut last_moves,
+            );
+            if !moved && converged_here {
                 converged = true;
                 break;
+            }
+            if let Some(before) = before.filter(|b| b.pinned != unknowns.pinned) {
+                // A transition point was just held at its interval's end: should that system
+                // not converge, this converged iterate (point just outside) is the answer.
+                unpinned = Some((layout.clone(), before, iteration, residual));
             }
             if moved {
                 // The moved regimes change the displacement, and with it the stagnation point.
@@ -280,6 +300,12 @@ impl<'a> CoupledProblem<'a> {
                 frozen = None;
             }
         }
+        if !converged {
+            if let Some((l, u, i, r)) = unpinned {
+                (layout, unknowns, residual, converged) = (l, u, r, true);
+                iterations = iterations.max(i);
+            }
+        }
         let mut solution =
             output::coupled_solution(self, &layout, &unknowns, converged, iterations, residual);
         solution.newton_state = Some(output::newton_state(&layout, &unknowns, case));
@@ -297,6 +323,7 @@ impl<'a> CoupledProblem<'a> {
         {
             let state = output::newton_state(layout, unknowns, self.case);
             let previous = std::mem::replace(unknowns, self.map_state(&new_layout, &state));
+            unknowns.pinned = previous.pinned;
             warm_start::keep_downstream_states(&new_layout, unknowns, layout, &previous);
             let ue = new_layout.edge_speeds(&unknowns.m);
             self.place_transition_points(&new_layout, unknowns, &ue);

@@ -28,6 +28,10 @@ const TRAILING_EDGE_FRACTION_SLACK: f64 = 0.75;
 /// pulls transition up.
 const UNSETTLED_N_MARGIN: f64 = 1.0;
 
+/// Stands for "off the trailing edge" (the layer laminar to it) as the target of a move in
+/// `last_moves`.
+const OFF_TRAILING_EDGE: usize = usize::MAX;
+
 /// Whether moving transition from station `from` to station `to` undoes the side's last move
 /// (`last`, as case nodes).
 fn undoes_last(last: Option<(usize, usize)>, layout: &Layout, from: usize, to: usize) -> bool {
@@ -115,6 +119,7 @@ impl CoupledProblem<'_> {
         unknowns: &mut Unknowns,
         ue: &[f64],
         settled: bool,
+        converged_here: bool,
         last_moves: &mut [Option<(usize, usize)>; 2],
     ) -> bool {
         let mut moved = false;
@@ -134,14 +139,21 @@ impl CoupledProblem<'_> {
                 trip.is_some_and(|ts| ts <= layout.s[j] * (1.0 + 1e-12))
                     || (j > range.start && unknowns.third[j] >= self.ctx.n_critical + margin)
             });
-            // (Not when it would undo the side's last move one interval downstream.)
+            // (Not when it would undo the side's last move one interval downstream, or off the
+            // trailing edge.)
             let early = early.filter(|&j| {
-                !(j + 1 == t && t < range.end && undoes_last(last_moves[side], layout, t, j))
+                let undoes = if t < range.end {
+                    undoes_last(last_moves[side], layout, t, j)
+                } else {
+                    last_moves[side] == Some((layout.nodes[j], OFF_TRAILING_EDGE))
+                };
+                !(j + 1 == t && undoes)
             });
             if let Some(j) = early {
                 if t < range.end {
                     last_moves[side] = Some((layout.nodes[t], layout.nodes[j]));
                 }
+                unknowns.pinned[side] = None;
                 self.transition_at(layout, unknowns, ue, range.clone(), j, t, trip);
                 moved = true;
                 continue;
@@ -169,8 +181,28 @@ impl CoupledProblem<'_> {
                 slack
             };
             let undoes = |target: usize| undoes_last(last_moves[side], layout, t, target);
+            // A settled point outside its interval whose move would undo the last one has no
+            // consistent place in either interval: it is held at the end it passed (like a
+            // trip there) instead of lying outside, where the turbulent part would run
+            // backwards from a near-separated start.
+            let pinned_here =
+                unknowns.pinned[side].is_some_and(|(node, _)| node == layout.nodes[t]);
+            if converged_here && !pinned_here {
+                let blocked_up = f < 0.0 && t - 1 > range.start && undoes(t - 1);
+                // (Past the end of the last interval: there the point at f = 1 gives the wake
+                // the same start as a layer laminar to the trailing edge.)
+                let blocked_down = f > 1.0 && (t + 1 == range.end || undoes(t + 1));
+                if blocked_up || blocked_down {
+                    let end = if blocked_down { 1.0 } else { 0.0 };
+                    unknowns.pinned[side] = Some((layout.nodes[t], end));
+                    unknowns.transition[t] = Some([ln_theta, end]);
+                    moved = true;
+                    continue;
+                }
+            }
             if f < -slack && t - 1 > range.start && !undoes(t - 1) {
                 last_moves[side] = Some((layout.nodes[t], layout.nodes[t - 1]));
+                unknowns.pinned[side] = None;
                 let h_t = self.transition_shape(layout, unknowns, ue, t, f);
                 // One interval upstream: the station before becomes the transition station.
                 let ratio = (layout.s[t] - layout.s[t - 1]) / (layout.s[t - 1] - layout.s[t - 2]);
@@ -186,9 +218,13 @@ impl CoupledProblem<'_> {
                 unknowns.transition[t] = None;
                 moved = true;
             } else if f > 1.0 + downstream_slack && !(t + 1 < range.end && undoes(t + 1)) {
-                if t + 1 < range.end {
-                    last_moves[side] = Some((layout.nodes[t], layout.nodes[t + 1]));
-                }
+                let to = if t + 1 < range.end {
+                    layout.nodes[t + 1]
+                } else {
+                    OFF_TRAILING_EDGE
+                };
+                last_moves[side] = Some((layout.nodes[t], to));
+                unknowns.pinned[side] = None;
                 // One interval downstream (or off the trailing edge): station t turns laminar
                 // with the point's laminar state.
                 let a = self.station(unknowns, ue, t - 1);

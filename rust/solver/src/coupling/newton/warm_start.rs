@@ -124,6 +124,7 @@ impl NewtonState {
             m: vec![0.0; k_total],
             regime: vec![Regime::Laminar; k_total],
             transition: vec![None; k_total],
+            pinned: [None; 2],
         };
         let mut shape = vec![2.0; k_total];
         for k in 0..k_total {
