@@ -353,3 +353,31 @@ fn momentum_thickness_is_continuous_through_transition() {
         }
     }
 }
+
+#[test]
+fn a_first_order_wake_solution_starts_the_full_model() {
+    // NACA 0012, Re 1e6, −4°…8°: at 8° neither the start from the inviscid flow nor the one
+    // from 7° converges the full model, and in version 0.4 the row was the first-order wake's
+    // (cl 0.888, about 3 % above the trend). The full model's Newton iteration started from
+    // that converged first-order solution converges (docs/method.md, "Wake curvature"): every
+    // row is a full-model one, and the lift keeps the slope of its neighbours (common
+    // practice: attached flow, nearly linear lift).
+    let section = naca::from_designation("0012", false, 200).unwrap();
+    let settings = ViscousSettings::new(1e6);
+    let alphas: Vec<f64> = (-4..=8).map(f64::from).collect();
+    let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
+    assert!(rows.iter().all(|r| r.converged && r.wake_curvature));
+    let slope = |a: &wakerank_solver::coupling::ViscousRow,
+                 b: &wakerank_solver::coupling::ViscousRow| {
+        (b.cl - a.cl) / (b.alpha_deg - a.alpha_deg)
+    };
+    let n = rows.len();
+    let (before, last) = (
+        slope(&rows[n - 3], &rows[n - 2]),
+        slope(&rows[n - 2], &rows[n - 1]),
+    );
+    assert!(
+        (last / before - 1.0).abs() < 0.1,
+        "lift slope {before:.4} per degree at 6°–7°, {last:.4} at 7°–8°"
+    );
+}
