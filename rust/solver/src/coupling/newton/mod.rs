@@ -214,7 +214,8 @@ impl<'a> CoupledProblem<'a> {
             residual = (0..layout.len())
                 .flat_map(|k| residuals[k][..row_counts[k]].iter())
                 .fold(0.0_f64, |m, v| {
-                    if v.is_finite() {
+                    // (f64::max ignores NaN: a NaN must stay NaN once met.)
+                    if v.is_finite() && !m.is_nan() {
                         m.max(v.abs())
                     } else {
                         f64::NAN

@@ -92,7 +92,16 @@ impl CoupledProblem<'_> {
                     layout.s[t],
                     layout.trips[side],
                 );
-                unknowns.transition[t] = Some([point.laminar.theta.ln(), point.fraction]);
+                let ln_theta = point.laminar.theta.ln();
+                // (A wild first iterate — an edge speed below zero at t — has no laminar
+                // solution in the interval: start the point mid-interval with a's θ instead of
+                // NaN, which would end the attempt at its first step.)
+                unknowns.transition[t] =
+                    Some(if ln_theta.is_finite() && point.fraction.is_finite() {
+                        [ln_theta, point.fraction]
+                    } else {
+                        [a.state.theta.ln(), 0.5]
+                    });
             }
         }
         for (k, flag) in keep.into_iter().enumerate() {
