@@ -294,7 +294,13 @@ pub(crate) fn solve_case(
                     continue;
                 }
                 let implied = case.edge_sign(node, stag) * q_check[node];
-                residual = residual.max((station.edge_velocity - implied).abs());
+                let gap = (station.edge_velocity - implied).abs();
+                // (f64::max ignores NaN: a non-finite gap makes the residual infinite.)
+                residual = if gap.is_finite() {
+                    residual.max(gap)
+                } else {
+                    f64::INFINITY
+                };
             }
         }
         if !residual.is_finite() {
