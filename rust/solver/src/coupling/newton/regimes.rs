@@ -120,8 +120,9 @@ impl CoupledProblem<'_> {
     /// would undo it is not made. Between two neighbouring intervals the discrete transition
     /// point can have no consistent place — in the upstream interval it settles beyond its end,
     /// in the downstream one before its start — and the iterate would move it to and fro for
-    /// ever; it stays instead in the interval it reached, just outside it, so its place is
-    /// uncertain by less than an interval.
+    /// ever; it stays instead in the interval it reached and, once the iterate has converged
+    /// (`converged_here`), is held at the end it passed (`Unknowns::pinned`) and solved again,
+    /// so its place is uncertain by less than an interval.
     pub(super) fn update_regimes(
         &self,
         layout: &Layout,
