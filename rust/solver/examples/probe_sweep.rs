@@ -2,7 +2,8 @@
 //! `cargo run --release -p wakerank-solver --example probe_sweep -- 0012 6e6 -6 12 1 [trip]`
 //! Environment: `WR_PANELS` (default 160), `WR_MACH` (default 0), `WR_CLOSED_TE=1` for the
 //! closed-trailing-edge NACA variant,
-//! `WR_NO_CURVATURE=1` to leave the wake-curvature sheet out.
+//! `WR_NO_CURVATURE=1` to leave the wake-curvature sheet out, `WR_WAKE_NODES` for the number
+//! of wake nodes (default a quarter of the panel count, at least 24).
 
 use std::time::Instant;
 use wakerank_solver::coupling::{analyze_viscous, ViscousSettings};
@@ -43,6 +44,9 @@ fn main() {
         panels: env_or("WR_PANELS", 160.0) as usize,
         mach: env_or("WR_MACH", 0.0),
         wake_curvature: std::env::var("WR_NO_CURVATURE").is_err(),
+        wake_nodes: std::env::var("WR_WAKE_NODES")
+            .ok()
+            .map(|v| v.parse().unwrap()),
         ..ViscousSettings::new(re)
     };
     let t = Instant::now();
