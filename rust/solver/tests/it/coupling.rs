@@ -1,7 +1,7 @@
 //! Viscous analysis of the public API: published reference values (the same fixtures the Python
 //! tests read), the no-NaN promise and thread-count independence of the batch entry.
 
-use wakerank_solver::coupling::{analyze_viscous, flat_plate_drag, ViscousSettings};
+use wakerank_solver::coupling::{analyze_viscous, flat_plate_drag, ViscousRow, ViscousSettings};
 use wakerank_solver::geometry::naca;
 use wakerank_solver::viscous_batch;
 
@@ -83,7 +83,7 @@ fn batch_is_deterministic_and_converged_rows_are_finite() {
 
 /// Every row converged, to an equation residual below 1e-6 (the Newton solution's, not the
 /// looser velocity residual of the quasi-simultaneous iteration).
-fn assert_tightly_converged(rows: &[wakerank_solver::coupling::ViscousRow]) {
+fn assert_tightly_converged(rows: &[ViscousRow]) {
     for row in rows {
         assert!(row.converged, "alpha {} did not converge", row.alpha_deg);
         assert!(

@@ -154,11 +154,9 @@ impl CoupledProblem<'_> {
                     (Regime::Laminar, _) => {
                         let side = layout.side_of(k).min(1);
                         // A pinned point is held at its interval's end like a trip there.
-                        let trip = match unknowns.pinned[side] {
-                            Some((node, f)) if node == layout.nodes[k] => {
-                                Some((sa + f.max(1e-9) * (sb - sa)).min(sb))
-                            }
-                            _ => layout.trips[side],
+                        let trip = match unknowns.pinned_fraction(side, layout.nodes[k]) {
+                            Some(f) => Some((sa + f.max(1e-9) * (sb - sa)).min(sb)),
+                            None => layout.trips[side],
                         };
                         let previous =
                             (involved[2] + 2 == k && regime(2) == Regime::Laminar).then(|| {

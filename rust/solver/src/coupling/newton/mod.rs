@@ -76,6 +76,16 @@ pub(crate) struct Unknowns {
     pub pinned: [Option<(usize, f64)>; 2],
 }
 
+impl Unknowns {
+    /// The fraction side `side`'s transition point is held at, if it is held and its
+    /// transition station is at case node `node`.
+    pub(crate) fn pinned_fraction(&self, side: usize, node: usize) -> Option<f64> {
+        self.pinned[side]
+            .filter(|&(at, _)| at == node)
+            .map(|(_, f)| f)
+    }
+}
+
 /// Variables of a station as the residuals see them: its unknowns and its edge speed.
 #[derive(Debug, Clone, Copy, Default)]
 struct NodeVars {

@@ -32,6 +32,21 @@ const UNSETTLED_N_MARGIN: f64 = 1.0;
 /// `last_moves`.
 const OFF_TRAILING_EDGE: usize = usize::MAX;
 
+/// Records a move of side `side`'s transition from case node `from` to `to` (None: a move
+/// not remembered, off the side's end) as the side's last move, and releases a held point.
+fn note_move(
+    last: &mut Option<(usize, usize)>,
+    unknowns: &mut Unknowns,
+    side: usize,
+    from: usize,
+    to: Option<usize>,
+) {
+    if let Some(to) = to {
+        *last = Some((from, to));
+    }
+    unknowns.pinned[side] = None;
+}
+
 /// Whether moving transition from station `from` to station `to` undoes the side's last move
 /// (`last`, as case nodes).
 fn undoes_last(last: Option<(usize, usize)>, layout: &Layout, from: usize, to: usize) -> bool {
@@ -160,10 +175,8 @@ impl CoupledProblem<'_> {
                 !(j + 1 == t && undoes)
             });
             if let Some(j) = early {
-                if t < range.end {
-                    last_moves[side] = Some((layout.nodes[t], layout.nodes[j]));
-                }
-                unknowns.pinned[side] = None;
+                let to = (t < range.end).then(|| layout.nodes[j]);
+                note_move(&mut last_moves[side], unknowns, side, layout.nodes[t], to);
                 self.transition_at(layout, unknowns, ue, range.clone(), j, t, trip);
                 moved = true;
                 continue;
@@ -195,8 +208,7 @@ impl CoupledProblem<'_> {
             // consistent place in either interval: it is held at the end it passed (like a
             // trip there) instead of lying outside, where the turbulent part would run
             // backwards from a near-separated start.
-            let pinned_here =
-                unknowns.pinned[side].is_some_and(|(node, _)| node == layout.nodes[t]);
+            let pinned_here = unknowns.pinned_fraction(side, layout.nodes[t]).is_some();
             if converged_here && !pinned_here {
                 let blocked_up = f < 0.0 && t - 1 > range.start && undoes(t - 1);
                 // (Past the end of the last interval: there the point at f = 1 gives the wake
@@ -211,8 +223,8 @@ impl CoupledProblem<'_> {
                 }
             }
             if f < -slack && t - 1 > range.start && !undoes(t - 1) {
-                last_moves[side] = Some((layout.nodes[t], layout.nodes[t - 1]));
-                unknowns.pinned[side] = None;
+                let to = Some(layout.nodes[t - 1]);
+                note_move(&mut last_moves[side], unknowns, side, layout.nodes[t], to);
                 let h_t = self.transition_shape(layout, unknowns, ue, t, f);
                 // One interval upstream: the station before becomes the transition station.
                 let ratio = (layout.s[t] - layout.s[t - 1]) / (layout.s[t - 1] - layout.s[t - 2]);
@@ -233,8 +245,13 @@ impl CoupledProblem<'_> {
                 } else {
                     OFF_TRAILING_EDGE
                 };
-                last_moves[side] = Some((layout.nodes[t], to));
-                unknowns.pinned[side] = None;
+                note_move(
+                    &mut last_moves[side],
+                    unknowns,
+                    side,
+                    layout.nodes[t],
+                    Some(to),
+                );
                 // One interval downstream (or off the trailing edge): station t turns laminar
                 // with the point's laminar state.
                 let a = self.station(unknowns, ue, t - 1);
