@@ -26,14 +26,48 @@ pub(crate) fn solve_angle(
     warm_start: Option<&WarmStart>,
 ) -> Option<(CaseModel, CoupledSolution)> {
     let case = CaseModel::new(section, alpha_deg, settings).ok()?;
-    let solution = solve_case_model(&case, settings, warm_start)?;
+    let coarse = section
+        .coarse
+        .as_deref()
+        .and_then(|(coarse, coarse_settings)| coarse_start(coarse, coarse_settings, &case));
+    let solution = solve_case_model(&case, settings, warm_start, coarse.as_ref())?;
     Some((case, solution))
+}
+
+/// A first iterate for a finely panelled case from the same section and angle at the coarse
+/// model's panel count (nested iteration, as in full multigrid: the coarse problem is cheaper,
+/// and on the short trailing-edge panels of a fine one the quasi-simultaneous starter from the
+/// inviscid flow often diverges; docs/method.md, "Sweeps and warm starts"): the coarse case's
+/// converged solution from the inviscid flow (the starter and the Newton iteration, as the
+/// first attempt of [`solve_case_model`]), carried over to the fine case's nodes
+/// ([`NewtonState::on_case`]). None when it does not converge. Like that attempt, it does not
+/// depend on the neighbours.
+fn coarse_start(
+    coarse: &SectionModel,
+    coarse_settings: &ViscousSettings,
+    fine: &CaseModel,
+) -> Option<NewtonState> {
+    let case = CaseModel::new(coarse, fine.alpha_deg, coarse_settings).ok()?;
+    let starter = ViscousSettings {
+        max_iterations: STARTER_PASSES,
+        ..coarse_settings.clone()
+    };
+    let first = solve_case(&case, &starter, None, PRIMARY).ok()?;
+    let solution = CoupledProblem::new(&case, coarse_settings)
+        .solve(&NewtonState::from_coupled(&first))
+        .ok()?;
+    let state = solution
+        .newton_state
+        .as_ref()
+        .filter(|_| solution.converged)?;
+    Some(state.on_case(&case, fine))
 }
 
 fn solve_case_model(
     case: &CaseModel,
     settings: &ViscousSettings,
     warm_start: Option<&WarmStart>,
+    coarse_start: Option<&NewtonState>,
 ) -> Option<CoupledSolution> {
     let problem = CoupledProblem::new(case, settings);
     let mut best: Option<CoupledSolution> = None;
@@ -84,6 +118,14 @@ fn solve_case_model(
         keep(first, best);
         true
     };
+    // 0. On a fine panelling, from the coarse model's solution at this angle.
+    if let Some(start) = coarse_start {
+        if let Ok(solution) = problem.solve(start) {
+            if keep(solution, &mut best) {
+                return best;
+            }
+        }
+    }
     // 1. From the inviscid flow: the same answer whatever the neighbours.
     if attempt(&starter, None, PRIMARY, &mut best) {
         return best;
@@ -137,7 +179,7 @@ pub(crate) fn first_order_wake_solution(
         ..settings.clone()
     };
     let full = CoupledProblem::new(case, settings);
-    solve_case_model(case, &first_order, warm_start)
+    solve_case_model(case, &first_order, warm_start, None)
         .filter(|solution| solution.converged)
         .map(|solution| with_full_model(&full, solution))
 }

@@ -21,14 +21,23 @@ use super::settings::ViscousSettings;
 /// speeds of order one.
 pub const MAX_CURVATURE_JUMP: f64 = 0.1;
 
+/// Panel counts above which a case first gets its iterate from the same section at
+/// [`COARSE_PANELS`] (nested iteration, `attempts::coarse_start`).
+pub(crate) const COARSE_START_ABOVE: usize = 200;
+/// Panel count of that coarse model.
+pub(crate) const COARSE_PANELS: usize = 160;
+
 /// The panel solver of one re-panelled section, shared by every angle of a sweep.
 pub(crate) struct SectionModel {
     pub solver: PanelSolver,
+    /// The same section at [`COARSE_PANELS`] panels, with its settings, when the requested
+    /// count exceeds [`COARSE_START_ABOVE`].
+    pub coarse: Option<Box<(SectionModel, ViscousSettings)>>,
 }
 
 impl SectionModel {
     /// Re-panel the section to the requested panel count (0: keep its points) and factorise
-    /// its panel system.
+    /// its panel system (and that of the coarse model, where one is used).
     pub fn new(section: &Section, settings: &ViscousSettings) -> Result<Self> {
         let solver = if settings.panels == 0 {
             PanelSolver::new(section)?
@@ -38,7 +47,20 @@ impl SectionModel {
                 settings.panels,
             )?)?
         };
-        Ok(SectionModel { solver })
+        let coarse = if settings.panels > COARSE_START_ABOVE {
+            let coarse_settings = ViscousSettings {
+                panels: COARSE_PANELS,
+                wake_nodes: None,
+                ..settings.clone()
+            };
+            // (A section the coarse panelling cannot represent simply goes without.)
+            SectionModel::new(section, &coarse_settings)
+                .ok()
+                .map(|model| Box::new((model, coarse_settings)))
+        } else {
+            None
+        };
+        Ok(SectionModel { solver, coarse })
     }
 }
 

@@ -44,7 +44,7 @@ impl CoupledProblem<'_> {
         // ∂ue_i/∂m_j of the sheet: station j's wake node w(j) appears in panels w − 1 and w.
         let stag = layout.split.stagnation.node;
         let ns = case.n_surface;
-        let mut jacobian = layout.influence.clone();
+        let mut jacobian = (*layout.influence).clone();
         let columns: Vec<(usize, usize)> = [(upper, 0), (lower, 0)]
             .into_iter()
             .chain(layout.wake.clone().map(|k| (k, layout.nodes[k] - ns)))

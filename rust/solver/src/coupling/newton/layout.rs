@@ -14,6 +14,7 @@
 //! the point reaches the node and the station set stays put while the point crosses it.
 
 use std::ops::Range;
+use std::sync::Arc;
 
 use crate::linalg::DenseMatrix;
 
@@ -55,7 +56,11 @@ pub(crate) struct Layout {
     pub ue_inviscid: Vec<f64>,
     /// ∂ue_k/∂m_l between stations (trailing-edge columns include the merged wake node, and
     /// each side's first column its node left out at the stagnation point).
-    pub influence: DenseMatrix,
+    pub influence: Arc<DenseMatrix>,
+    /// `influence` before the nodes left out at the stagnation point are folded in: it depends
+    /// on the station nodes and the stagnation node alone, so a layout of the same stations
+    /// reuses it ([`Layout::new`]).
+    unfolded: Arc<DenseMatrix>,
     /// Surface nodes left out at the stagnation point: (node, first station of its side,
     /// m_node / m_station).
     pub near_stagnation: Vec<(usize, usize, f64)>,
@@ -101,12 +106,15 @@ fn base_edge_speeds(
 impl Layout {
     /// Builds the layout of `split` for the case, with trips at x/c `trips` (upper, lower) and
     /// the node speeds `speed_offset` (coupling convention, e.g. of the wake-curvature sheet)
-    /// added to the inviscid ones.
+    /// added to the inviscid ones. When `previous` has the same stations and stagnation node
+    /// (the usual case between Newton steps: the stagnation point moves within its panel), its
+    /// station-to-station influence is reused instead of rebuilt; the result is the same.
     pub(crate) fn new(
         case: &CaseModel,
         mut split: SurfaceSplit,
         trips: [Option<f64>; 2],
         speed_offset: &[f64],
+        previous: Option<&Layout>,
     ) -> Self {
         let ns = case.n_surface;
         let stag = split.stagnation.node;
@@ -156,22 +164,38 @@ impl Layout {
                 (node, first, d / s[first].max(f64::MIN_POSITIVE))
             })
             .collect();
-        let mut influence = DenseMatrix::zeros(k_total, k_total);
-        let has_wake = case.n_total() > ns;
-        for (k, &node_k) in nodes.iter().enumerate() {
-            let row = influence.row_mut(k);
-            for (l, &node_l) in nodes.iter().enumerate() {
-                row[l] = case.influence_between(node_k, node_l, stag);
+        let reusable = previous.filter(|p| p.split.stagnation.node == stag && p.nodes == nodes);
+        let unfolded = match reusable {
+            Some(p) => Arc::clone(&p.unfolded),
+            None => {
+                let mut unfolded = DenseMatrix::zeros(k_total, k_total);
+                let has_wake = case.n_total() > ns;
+                for (k, &node_k) in nodes.iter().enumerate() {
+                    let row = unfolded.row_mut(k);
+                    for (l, &node_l) in nodes.iter().enumerate() {
+                        row[l] = case.influence_between(node_k, node_l, stag);
+                    }
+                    if has_wake {
+                        let folded = case.influence_between(node_k, ns, stag);
+                        row[te[0]] += folded;
+                        row[te[1]] += folded;
+                    }
+                }
+                Arc::new(unfolded)
             }
-            if has_wake {
-                let folded = case.influence_between(node_k, ns, stag);
-                row[te[0]] += folded;
-                row[te[1]] += folded;
+        };
+        let influence = if near_stagnation.is_empty() {
+            Arc::clone(&unfolded)
+        } else {
+            let mut folded = (*unfolded).clone();
+            for (k, &node_k) in nodes.iter().enumerate() {
+                let row = folded.row_mut(k);
+                for &(node, first, ratio) in &near_stagnation {
+                    row[first] += ratio * case.influence_between(node_k, node, stag);
+                }
             }
-            for &(node, first, ratio) in &near_stagnation {
-                row[first] += ratio * case.influence_between(node_k, node, stag);
-            }
-        }
+            Arc::new(folded)
+        };
         let trip_s = [
             trips[0].and_then(|xt| arc_length_at_x(&split.upper, &case.x, xt, split.stagnation.x)),
             trips[1].and_then(|xt| arc_length_at_x(&split.lower, &case.x, xt, split.stagnation.x)),
@@ -187,6 +211,7 @@ impl Layout {
             trips: trip_s,
             ue_inviscid,
             influence,
+            unfolded,
             near_stagnation,
             jacobian_influence: None,
         }

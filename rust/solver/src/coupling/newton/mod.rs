@@ -180,12 +180,12 @@ impl<'a> CoupledProblem<'a> {
             .collect();
         let guess_stag = start.stagnation_node.min(ns.saturating_sub(2));
         self.speed_offset.replace(vec![0.0; case.n_total()]);
-        let mut layout = self.layout_for(&m_start, guess_stag)?;
+        let mut layout = self.layout_for(&m_start, guess_stag, None)?;
         let mut unknowns = self.map_state(&layout, start);
         // The mapped mass defects move the stagnation point a little: settle the split.
         for _ in 0..3 {
             let m_full = layout.node_mass_defect(case, &unknowns.m);
-            let settled = self.layout_for(&m_full, layout.split.stagnation.node)?;
+            let settled = self.layout_for(&m_full, layout.split.stagnation.node, Some(&layout))?;
             if settled.split.upper.nodes == layout.split.upper.nodes
                 && settled.split.lower.nodes == layout.split.lower.nodes
             {
@@ -328,7 +328,7 @@ impl<'a> CoupledProblem<'a> {
     /// state (`warm_start::keep_downstream_states`).
     fn resplit(&self, layout: &Layout, unknowns: &mut Unknowns) -> Result<Layout> {
         let m_full = layout.node_mass_defect(self.case, &unknowns.m);
-        let new_layout = self.layout_for(&m_full, layout.split.stagnation.node)?;
+        let new_layout = self.layout_for(&m_full, layout.split.stagnation.node, Some(layout))?;
         if new_layout.split.upper.nodes != layout.split.upper.nodes
             || new_layout.split.lower.nodes != layout.split.lower.nodes
         {
@@ -342,8 +342,14 @@ impl<'a> CoupledProblem<'a> {
         Ok(new_layout)
     }
 
-    /// Layout at the stagnation point of the speeds induced by the node mass defects `m_full`.
-    fn layout_for(&self, m_full: &[f64], stag_guess: usize) -> Result<Layout> {
+    /// Layout at the stagnation point of the speeds induced by the node mass defects `m_full`
+    /// (reusing what it can of `previous`, see [`Layout::new`]).
+    fn layout_for(
+        &self,
+        m_full: &[f64],
+        stag_guess: usize,
+        previous: Option<&Layout>,
+    ) -> Result<Layout> {
         let case = self.case;
         let ns = case.n_surface;
         let offset = self.speed_offset.borrow();
@@ -363,6 +369,7 @@ impl<'a> CoupledProblem<'a> {
             split,
             [self.settings.trip_upper, self.settings.trip_lower],
             &offset,
+            previous,
         ))
     }
 

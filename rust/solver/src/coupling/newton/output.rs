@@ -18,6 +18,7 @@ pub(super) fn newton_state(layout: &Layout, unknowns: &Unknowns, case: &CaseMode
         sides: Default::default(),
         stagnation_node: layout.split.stagnation.node,
         node_mass_defect: layout.node_mass_defect(case, &unknowns.m),
+        keeps_mass_defect: false,
     };
     for k in 0..layout.len() {
         let profile = &mut state.sides[layout.side_of(k)];
