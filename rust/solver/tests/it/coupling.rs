@@ -343,6 +343,20 @@ fn a_failing_end_angle_is_solved_from_one_step_beyond_it() {
 }
 
 #[test]
+fn a_transition_point_stuck_at_its_bound_is_held_at_its_interval_end() {
+    // Our design (docs/method.md, "Transition moves that would cycle"): a point whose move is
+    // blocked and that lies at the bound of its fraction for several iterations is held at
+    // its interval's end at once, not only after convergence. NACA 2412, Re 1e6, 3°: the
+    // lower-surface point, one interval before the trailing edge, sat at f = −1 and the
+    // iterate stalled at a residual of 4e-2; the row came from the first-order wake after five
+    // failed solves. Now the full model converges (cl 0.568 against 0.574 first-order).
+    let section = naca::from_designation("2412", false, 200).unwrap();
+    let rows = analyze_viscous(&section, &[3.0], &ViscousSettings::new(1e6)).unwrap();
+    assert!(rows[0].converged && rows[0].wake_curvature, "{:?}", rows[0]);
+    assert!(rows[0].residual < 1e-8);
+}
+
+#[test]
 fn momentum_thickness_is_continuous_through_transition() {
     // Common practice: θ is continuous through transition (the momentum equation carries no
     // source there) and the edge speed has no spike at the first turbulent station. Found in

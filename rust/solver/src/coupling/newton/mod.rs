@@ -37,6 +37,7 @@ use super::settings::ViscousSettings;
 use super::stagnation::{locate_stagnation, split_surface};
 use elimination::{Factorisation, MAX_EQUATIONS};
 use layout::Layout;
+use regimes::TransitionHistory;
 
 /// Largest residual (any station, any equation) of a converged solution. The residuals are
 /// changes of ln θ, of a shape parameter and of N or CE over one interval.
@@ -201,8 +202,9 @@ impl<'a> CoupledProblem<'a> {
         // they reduce the residual fast enough.
         let mut frozen: Option<Factorisation> = None;
         let (mut lowest, mut lowest_at) = (f64::INFINITY, 0);
-        // Each side's last move of transition between intervals (`update_regimes`).
-        let mut last_moves = [None; 2];
+        // Each side's last move of transition between intervals and how long its point has lain
+        // at the lower bound of its fraction (`update_regimes`).
+        let mut history = TransitionHistory::default();
         // The converged iterate from before a transition point was held at an interval end.
         let mut unpinned: Option<(Layout, Unknowns, usize, f64)> = None;
         for iteration in 1..=MAX_NEWTON_ITERATIONS.min(self.settings.max_iterations.max(1)) {
@@ -249,7 +251,7 @@ impl<'a> CoupledProblem<'a> {
                 &ue,
                 settled,
                 converged_here,
-                &mut last_moves,
+                &mut history,
             );
             if !moved && converged_here {
                 converged = true;

@@ -15,7 +15,7 @@ use crate::boundary_layer::local_newton::{solve, NewtonOptions};
 use crate::boundary_layer::{LayerState, Regime};
 
 use super::layout::Layout;
-use super::step::{LAMINAR_MAX_SHAPE_FACTOR, LAMINAR_MIN_SHAPE_FACTOR};
+use super::step::{FRACTION_BOUNDS, LAMINAR_MAX_SHAPE_FACTOR, LAMINAR_MIN_SHAPE_FACTOR};
 use super::{CoupledProblem, Unknowns};
 
 /// How far outside [0, 1] the transition point of an unsettled iterate may lie before it moves.
@@ -27,6 +27,21 @@ const TRAILING_EDGE_FRACTION_SLACK: f64 = 0.75;
 /// How far past the critical N a laminar station of an unsettled iterate may be before it
 /// pulls transition up.
 const UNSETTLED_N_MARGIN: f64 = 1.0;
+
+/// Consecutive iterations a transition point must lie at the lower bound the update keeps its
+/// fraction within, its move upstream blocked, before it is held at its interval's start
+/// without waiting for the iterate to converge (our choice: a point thrown there in the first
+/// steps after a move mostly comes back; one that stays there stalls the iteration).
+const BOUND_ITERATIONS: usize = 3;
+
+/// What the iteration remembers of each side's transition between calls of `update_regimes`.
+#[derive(Debug, Clone, Copy, Default)]
+pub(super) struct TransitionHistory {
+    /// Each side's last move between intervals, as case nodes (from, to).
+    pub last_moves: [Option<(usize, usize)>; 2],
+    /// Consecutive iterations each side's point has lain at the lower bound of its fraction.
+    pub at_bound: [usize; 2],
+}
 
 /// Stands for "off the trailing edge" (the layer laminar to it) as the target of a move in
 /// `last_moves`.
@@ -131,7 +146,7 @@ impl CoupledProblem<'_> {
     /// are accurate, any point outside its interval moves; from an unsettled one only points
     /// well outside (the equations of a point several intervals away are meaningless).
     ///
-    /// `last_moves` holds each side's last interval move as case nodes (from, to); a move that
+    /// `history.last_moves` holds each side's last interval move as case nodes (from, to); a move that
     /// would undo it is not made. Between two neighbouring intervals the discrete transition
     /// point can have no consistent place — in the upstream interval it settles beyond its end,
     /// in the downstream one before its start — and the iterate would move it to and fro for
@@ -145,8 +160,9 @@ impl CoupledProblem<'_> {
         ue: &[f64],
         settled: bool,
         converged_here: bool,
-        last_moves: &mut [Option<(usize, usize)>; 2],
+        history: &mut TransitionHistory,
     ) -> bool {
+        let last_moves = &mut history.last_moves;
         let mut moved = false;
         for (side, range) in [layout.upper.clone(), layout.lower.clone()]
             .into_iter()
@@ -172,7 +188,13 @@ impl CoupledProblem<'_> {
                 } else {
                     last_moves[side] == Some((layout.nodes[j], OFF_TRAILING_EDGE))
                 };
-                !(j + 1 == t && undoes)
+                // (Nor, for a point held at its interval's end because it had no consistent
+                // place, by the N of the two stations before the transition station: the held
+                // point lies within an interval of where N reaches the critical value, and
+                // pulling it up makes the three intervals around it cycle.)
+                let held =
+                    t < range.end && unknowns.pinned_fraction(side, layout.nodes[t]).is_some();
+                !(j + 1 == t && undoes) && !(held && j + 2 >= t)
             });
             if let Some(j) = early {
                 let to = (t < range.end).then(|| layout.nodes[j]);
@@ -209,7 +231,20 @@ impl CoupledProblem<'_> {
             // trip there) instead of lying outside, where the turbulent part would run
             // backwards from a near-separated start.
             let pinned_here = unknowns.pinned_fraction(side, layout.nodes[t]).is_some();
-            if converged_here && !pinned_here {
+            // (Also before convergence when the point has lain at the lower bound the step
+            // keeps it within, a whole interval before its start, for BOUND_ITERATIONS
+            // iterations: with its move upstream blocked it can go nowhere, and the iterate
+            // stalls there instead of converging. Not at the upper bound: there the point past
+            // the last interval leaves the layer laminar to the trailing edge, and holding it
+            // earlier put NACA 0012 at Re 2e5 and −6° on a second solution.)
+            let at_bound = f <= FRACTION_BOUNDS.0 + 1e-9;
+            history.at_bound[side] = if at_bound {
+                history.at_bound[side] + 1
+            } else {
+                0
+            };
+            let stuck = history.at_bound[side] >= BOUND_ITERATIONS;
+            if (converged_here || stuck) && !pinned_here {
                 let blocked_up = f < 0.0 && t - 1 > range.start && undoes(t - 1);
                 // (Past the end of the last interval: there the point at f = 1 gives the wake
                 // the same start as a layer laminar to the trailing edge.)

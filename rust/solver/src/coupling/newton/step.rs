@@ -15,6 +15,9 @@ const MAX_LOG_THETA_STEP: f64 = 0.4;
 const MAX_RELATIVE_STEP: f64 = 0.35;
 /// Largest change of a transition point's place in its interval in one step (intervals).
 const MAX_FRACTION_STEP: f64 = 1.0;
+/// Range the update keeps a transition point's place in its interval within (fractions of
+/// the interval: up to one interval before its start, or past its end).
+pub(super) const FRACTION_BOUNDS: (f64, f64) = (-1.0, 2.0);
 /// Largest change of CE in one step where CE itself is small.
 const MAX_ENTRAINMENT_STEP: f64 = 0.02;
 /// Edge speed below which a station counts as near a stagnation point for the step limits.
@@ -92,7 +95,7 @@ impl CoupledProblem<'_> {
                 t[0] += own * dlt;
                 // Kept within one interval either side: beyond that the point moves.
                 let change = (own * df).clamp(-MAX_FRACTION_STEP, MAX_FRACTION_STEP);
-                t[1] = (t[1] + change).clamp(-1.0, 2.0);
+                t[1] = (t[1] + change).clamp(FRACTION_BOUNDS.0, FRACTION_BOUNDS.1);
             }
             unknowns.m[k] = (unknowns.m[k] + own * step.mass[k]).max(1e-12);
             if unknowns.regime[k] != Regime::Laminar {
