@@ -35,29 +35,47 @@ const UNSETTLED_N_MARGIN: f64 = 1.0;
 const BOUND_ITERATIONS: usize = 3;
 
 /// What the iteration remembers of each side's transition between calls of `update_regimes`.
-#[derive(Debug, Clone, Copy, Default)]
+#[derive(Debug, Clone, Default)]
 pub(super) struct TransitionHistory {
     /// Each side's last move between intervals, as case nodes (from, to).
     pub last_moves: [Option<(usize, usize)>; 2],
+    /// Every move each side has made in this solve, as case nodes (from, to), the trailing
+    /// edge as [`OFF_TRAILING_EDGE`]: a move is made once at most, so no sequence of moves
+    /// repeats (`refuses`).
+    pub made: [Vec<(usize, usize)>; 2],
     /// Consecutive iterations each side's point has lain at the lower bound of its fraction.
     pub at_bound: [usize; 2],
+}
+
+impl TransitionHistory {
+    /// Whether side `side` has moved transition from case node `from` to `to` before in this
+    /// solve (either may be [`OFF_TRAILING_EDGE`]), so that the move is not made again: the
+    /// rule against undoing the last move stops a cycle between two intervals, this one a
+    /// cycle through several (NACA 0012, Re 1e6, 8°, lower side: off the trailing edge,
+    /// pulled up two intervals by the critical N, one interval down, off again, until the
+    /// attempt ran out of iterations).
+    fn refuses(&self, side: usize, from: usize, to: usize) -> bool {
+        self.made[side].contains(&(from, to))
+    }
 }
 
 /// Stands for "off the trailing edge" (the layer laminar to it) as the target of a move in
 /// `last_moves`.
 const OFF_TRAILING_EDGE: usize = usize::MAX;
 
-/// Records a move of side `side`'s transition from case node `from` to `to` (None: a move
-/// not remembered, off the side's end) as the side's last move, and releases a held point.
+/// Records a move of side `side`'s transition from case node `from` to `to` (either may be
+/// [`OFF_TRAILING_EDGE`]) among its moves and, unless it is a pull-up from the trailing edge,
+/// as its last move; releases a held point.
 fn note_move(
-    last: &mut Option<(usize, usize)>,
+    history: &mut TransitionHistory,
     unknowns: &mut Unknowns,
     side: usize,
     from: usize,
-    to: Option<usize>,
+    to: usize,
 ) {
-    if let Some(to) = to {
-        *last = Some((from, to));
+    history.made[side].push((from, to));
+    if from != OFF_TRAILING_EDGE {
+        history.last_moves[side] = Some((from, to));
     }
     unknowns.pinned[side] = None;
 }
@@ -162,7 +180,6 @@ impl CoupledProblem<'_> {
         converged_here: bool,
         history: &mut TransitionHistory,
     ) -> bool {
-        let last_moves = &mut history.last_moves;
         let mut moved = false;
         for (side, range) in [layout.upper.clone(), layout.lower.clone()]
             .into_iter()
@@ -182,7 +199,13 @@ impl CoupledProblem<'_> {
             });
             // (Not when it would undo the side's last move one interval downstream, or off the
             // trailing edge.)
+            let from = if t < range.end {
+                layout.nodes[t]
+            } else {
+                OFF_TRAILING_EDGE
+            };
             let early = early.filter(|&j| {
+                let last_moves = &history.last_moves;
                 let undoes = if t < range.end {
                     undoes_last(last_moves[side], layout, t, j)
                 } else {
@@ -194,11 +217,13 @@ impl CoupledProblem<'_> {
                 // pulling it up makes the three intervals around it cycle.)
                 let held =
                     t < range.end && unknowns.pinned_fraction(side, layout.nodes[t]).is_some();
-                !(j + 1 == t && undoes) && !(held && j + 2 >= t)
+                let blocked = (j + 1 == t && undoes)
+                    || (held && j + 2 >= t)
+                    || history.refuses(side, from, layout.nodes[j]);
+                !blocked
             });
             if let Some(j) = early {
-                let to = (t < range.end).then(|| layout.nodes[j]);
-                note_move(&mut last_moves[side], unknowns, side, layout.nodes[t], to);
+                note_move(history, unknowns, side, from, layout.nodes[j]);
                 self.transition_at(layout, unknowns, ue, range.clone(), j, t, trip);
                 moved = true;
                 continue;
@@ -225,7 +250,17 @@ impl CoupledProblem<'_> {
             } else {
                 slack
             };
-            let undoes = |target: usize| undoes_last(last_moves[side], layout, t, target);
+            let undoes = |target: usize| undoes_last(history.last_moves[side], layout, t, target);
+            // Moves that may not be made: back over the last move, or made before.
+            let up_blocked =
+                undoes(t - 1) || history.refuses(side, layout.nodes[t], layout.nodes[t - 1]);
+            let down_target = if t + 1 < range.end {
+                layout.nodes[t + 1]
+            } else {
+                OFF_TRAILING_EDGE
+            };
+            let down_blocked = (t + 1 < range.end && undoes(t + 1))
+                || history.refuses(side, layout.nodes[t], down_target);
             // A settled point outside its interval whose move would undo the last one has no
             // consistent place in either interval: it is held at the end it passed (like a
             // trip there) instead of lying outside, where the turbulent part would run
@@ -245,10 +280,10 @@ impl CoupledProblem<'_> {
             };
             let stuck = history.at_bound[side] >= BOUND_ITERATIONS;
             if (converged_here || stuck) && !pinned_here {
-                let blocked_up = f < 0.0 && t - 1 > range.start && undoes(t - 1);
+                let blocked_up = f < 0.0 && t - 1 > range.start && up_blocked;
                 // (Past the end of the last interval: there the point at f = 1 gives the wake
                 // the same start as a layer laminar to the trailing edge.)
-                let blocked_down = f > 1.0 && (t + 1 == range.end || undoes(t + 1));
+                let blocked_down = f > 1.0 && (t + 1 == range.end || down_blocked);
                 if blocked_up || blocked_down {
                     let end = if blocked_down { 1.0 } else { 0.0 };
                     unknowns.pinned[side] = Some((layout.nodes[t], end));
@@ -257,9 +292,9 @@ impl CoupledProblem<'_> {
                     continue;
                 }
             }
-            if f < -slack && t - 1 > range.start && !undoes(t - 1) {
-                let to = Some(layout.nodes[t - 1]);
-                note_move(&mut last_moves[side], unknowns, side, layout.nodes[t], to);
+            if f < -slack && t - 1 > range.start && !up_blocked {
+                let to = layout.nodes[t - 1];
+                note_move(history, unknowns, side, layout.nodes[t], to);
                 let h_t = self.transition_shape(layout, unknowns, ue, t, f);
                 // One interval upstream: the station before becomes the transition station.
                 let ratio = (layout.s[t] - layout.s[t - 1]) / (layout.s[t - 1] - layout.s[t - 2]);
@@ -274,19 +309,8 @@ impl CoupledProblem<'_> {
                 unknowns.transition[t - 1] = Some([ln_theta, (1.0 + f * ratio).clamp(0.0, 1.0)]);
                 unknowns.transition[t] = None;
                 moved = true;
-            } else if f > 1.0 + downstream_slack && !(t + 1 < range.end && undoes(t + 1)) {
-                let to = if t + 1 < range.end {
-                    layout.nodes[t + 1]
-                } else {
-                    OFF_TRAILING_EDGE
-                };
-                note_move(
-                    &mut last_moves[side],
-                    unknowns,
-                    side,
-                    layout.nodes[t],
-                    Some(to),
-                );
+            } else if f > 1.0 + downstream_slack && !down_blocked {
+                note_move(history, unknowns, side, layout.nodes[t], down_target);
                 // One interval downstream (or off the trailing edge): station t turns laminar
                 // with the point's laminar state.
                 let a = self.station(unknowns, ue, t - 1);
@@ -462,5 +486,41 @@ impl CoupledProblem<'_> {
                 unknowns.transition[k] = None;
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn unknowns() -> Unknowns {
+        Unknowns {
+            ln_theta: Vec::new(),
+            third: Vec::new(),
+            m: Vec::new(),
+            regime: Vec::new(),
+            transition: Vec::new(),
+            pinned: [Some((7, 1.0)), None],
+        }
+    }
+
+    /// Our design (docs/method.md, "Transition moves that would cycle"): each side makes a
+    /// move once per solve; a pull-up from the trailing edge is remembered among the moves but
+    /// is not the side's last move (the undo rule compares with interval moves); any move
+    /// releases the side's held point.
+    #[test]
+    fn each_move_is_made_once_per_solve() {
+        let mut history = TransitionHistory::default();
+        let mut u = unknowns();
+        note_move(&mut history, &mut u, 0, 10, 11);
+        assert!(u.pinned[0].is_none());
+        assert!(history.refuses(0, 10, 11) && !history.refuses(1, 10, 11));
+        assert!(!history.refuses(0, 11, 12));
+        assert_eq!(history.last_moves[0], Some((10, 11)));
+        note_move(&mut history, &mut u, 0, OFF_TRAILING_EDGE, 9);
+        assert!(history.refuses(0, OFF_TRAILING_EDGE, 9));
+        assert_eq!(history.last_moves[0], Some((10, 11)));
+        note_move(&mut history, &mut u, 0, 12, OFF_TRAILING_EDGE);
+        assert_eq!(history.last_moves[0], Some((12, OFF_TRAILING_EDGE)));
     }
 }
