@@ -164,11 +164,11 @@ impl CoupledProblem<'_> {
     /// are accurate, any point outside its interval moves; from an unsettled one only points
     /// well outside (the equations of a point several intervals away are meaningless).
     ///
-    /// `history.last_moves` holds each side's last interval move as case nodes (from, to); a move that
-    /// would undo it is not made. Between two neighbouring intervals the discrete transition
-    /// point can have no consistent place — in the upstream interval it settles beyond its end,
-    /// in the downstream one before its start — and the iterate would move it to and fro for
-    /// ever; it stays instead in the interval it reached and, once the iterate has converged
+    /// `history.last_moves` holds each side's last interval move as case nodes (from, to); a
+    /// move that would undo it is not made, nor one made before in this solve (`refuses`).
+    /// Between two neighbouring intervals the discrete transition point can have no consistent
+    /// place — in the upstream interval it settles beyond its end, in the downstream one before
+    /// its start — and the iterate would move it to and fro for ever; it stays instead in the interval it reached and, once the iterate has converged
     /// (`converged_here`), is held at the end it passed (`Unknowns::pinned`) and solved again,
     /// so its place is uncertain by less than an interval.
     pub(super) fn update_regimes(
