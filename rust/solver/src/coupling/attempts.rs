@@ -4,7 +4,7 @@
 //! (docs/method.md, "Sweeps and warm starts" and "Wake curvature").
 
 use super::iteration::{solve_case, CoupledSolution, WarmStart, CAUTIOUS, PRIMARY, STIFF};
-use super::model::{CaseModel, SectionModel};
+use super::model::{CaseModel, SectionModel, COARSE_START_ABOVE};
 use super::newton::{CoupledProblem, NewtonState};
 use super::settings::ViscousSettings;
 
@@ -18,7 +18,9 @@ const STARTER_PASSES: usize = 20;
 /// neighbour); then from the quasi-simultaneous starter warm-started with the neighbour's mass
 /// defect; last, the quasi-simultaneous iteration on its own with its strategies (cautious,
 /// stiff), each finished by the Newton iteration. The first attempt that converges is kept,
-/// otherwise the last one.
+/// otherwise the last one. Above [`COARSE_START_ABOVE`] panels the Newton iteration from the
+/// coarse model's solution comes first ([`coarse_start`]), and the warm-started starter before
+/// the neighbour's full iterate.
 pub(crate) fn solve_angle(
     section: &SectionModel,
     alpha_deg: f64,
@@ -130,6 +132,13 @@ fn solve_case_model(
     if attempt(&starter, None, PRIMARY, &mut best) {
         return best;
     }
+    // (On a fine panelling the starter from the neighbour's mass defect comes first: there the
+    // neighbour's full iterate mostly creeps until it runs out of iterations, while the
+    // starter, unstable from the inviscid flow, converges from so close a start.)
+    let fine = settings.panels > COARSE_START_ABOVE && warm_defect.is_some();
+    if fine && attempt(&starter, warm_defect, PRIMARY, &mut best) {
+        return best;
+    }
     // 2. From the converged neighbour's full iterate.
     if let Some(state) = warm_start.and_then(|w| w.state.as_ref()) {
         if let Ok(solution) = problem.solve(state) {
@@ -147,8 +156,8 @@ fn solve_case_model(
     ];
     for (index, (attempt_settings, strategy)) in attempts.into_iter().enumerate() {
         for start in [warm_defect, None] {
-            // (The cold starter was attempt 1.)
-            let repeat = index == 0 && start.is_none();
+            // (The cold starter was attempt 1; on a fine panelling the warm one came before 2.)
+            let repeat = index == 0 && (start.is_none() || fine);
             if !repeat && attempt(attempt_settings, start, strategy, &mut best) {
                 return best;
             }
