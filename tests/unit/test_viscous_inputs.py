@@ -85,6 +85,20 @@ def test_solve_for_cl_beyond_maximum_lift_is_an_error(naca0012):
         wr.solve_for_cl(naca0012, cl=2.8, reynolds=1e6)
 
 
+def test_solve_for_cl_is_not_stopped_by_a_change_of_solution_branch():
+    # Our design (target_cl.rs): a lift that falls over a short step of α is free transition
+    # changing place, not maximum lift. NACA 2412, Re 1e6, 240 panels: cl 0.6992 at 4.144° and
+    # 0.6873 at 4.150°; version 0.4.1 stopped there ("maximum lift"). Now cl 0.9 is reached and
+    # cl 0.7, where the computed lift jumps from 0.688 to 0.700 within 0.001°, is an error that
+    # says so and names both sides.
+    section = wr.Section.naca("2412")
+    row = wr.solve_for_cl(section, cl=0.9, reynolds=1e6, panels=240)
+    assert row["converged"][0] and math.isclose(row["cl"][0], 0.9, abs_tol=1e-3)
+    with pytest.raises(wr.ConvergenceError, match="jumps across") as failure:
+        wr.solve_for_cl(section, cl=0.7, reynolds=1e6, panels=240)
+    assert "maximum lift" not in str(failure.value)
+
+
 def test_cli_analyze_with_reynolds():
     from typer.testing import CliRunner
 

@@ -14,14 +14,23 @@ const ALPHA_LIMIT_DEG: f64 = 25.0;
 const CL_TOLERANCE: f64 = 1.0e-4;
 /// Largest step of the secant iteration, degrees (keeps warm starts close).
 const MAX_STEP_DEG: f64 = 2.0;
+/// Shortest step over which a falling lift is taken as the sign of maximum lift, degrees.
+const MIN_SLOPE_STEP_DEG: f64 = 0.25;
+/// Bracket width below which a target not yet met is taken to lie in a jump of the lift,
+/// degrees.
+const MIN_BRACKET_DEG: f64 = 1e-3;
 
 /// Solve for the angle of attack giving `target_cl` and return that polar row.
 ///
 /// A secant iteration on α (steps limited to 2° so every solve warm-starts from the last
 /// converged one), started from the thin-airfoil slope 2π per radian through the viscous cl
-/// at 0°. When the lift stops growing before the target is reached the target lies beyond the
-/// section's maximum (or minimum) lift, and a `SolverError::Convergence` says so, giving the
-/// extreme lift found.
+/// at 0°; once two converged angles bracket the target, a safeguarded secant (regula falsi
+/// with bisection whenever the secant leaves the bracket or the local slope has the wrong
+/// sign — free-transition lift curves are not smooth on the scale of a panel). When the lift
+/// stops growing before the target is reached the target lies beyond the section's maximum
+/// (or minimum) lift, and a `SolverError::Convergence` says so, giving the extreme lift found;
+/// when the bracket shrinks below [`MIN_BRACKET_DEG`] without reaching the target, the lift
+/// jumps across it, and the error gives the two sides of the jump.
 pub fn solve_for_cl(
     section: &Section,
     target_cl: f64,
@@ -40,6 +49,9 @@ pub fn solve_for_cl(
     let mut previous: Option<(f64, f64)> = None;
     let direction = target_cl.signum();
     let mut extreme = f64::NAN;
+    // The converged (α, cl) nearest the target short of it and past it, once found.
+    let mut short: Option<(f64, f64)> = None;
+    let mut past: Option<(f64, f64)> = None;
     for _ in 0..40 {
         let solved = solve_with_continuation_or_first_order(&model, alpha, settings, warm.as_ref());
         let Some((case, sol)) = solved else { break };
@@ -59,21 +71,66 @@ pub fn solve_for_cl(
         if error.abs() < CL_TOLERANCE {
             return Ok(row);
         }
+        // The new point replaces its side's end of a bracket (it lies inside); before there is
+        // one, each side keeps the point nearest the target.
+        let was_bracketed = short.is_some() && past.is_some();
+        let side = if error * direction < 0.0 {
+            &mut short
+        } else {
+            &mut past
+        };
+        if was_bracketed || side.is_none_or(|(_, cl)| (cl - target_cl).abs() > error.abs()) {
+            *side = Some((alpha, row.cl));
+        }
+        // (A lift that falls over a short step is the solution changing branch — free
+        // transition has several self-consistent places — not maximum lift: the step after it
+        // takes the thin-airfoil slope.)
         let slope = match previous {
-            Some((a0, c0)) if (alpha - a0).abs() > 1e-9 => (row.cl - c0) / (alpha - a0),
+            Some((a0, c0)) if (alpha - a0).abs() >= MIN_SLOPE_STEP_DEG => {
+                (row.cl - c0) / (alpha - a0)
+            }
+            Some((a0, c0)) if (alpha - a0).abs() > 1e-9 && (row.cl - c0) * direction > 0.0 => {
+                (row.cl - c0) / (alpha - a0)
+            }
             _ => slope_guess,
         };
-        // Lift that no longer grows towards the target: beyond maximum lift.
-        if previous.is_some() && slope * direction <= 0.0 && error * direction < 0.0 {
-            break;
-        }
+        let first = previous.is_none();
+        previous = Some((alpha, row.cl));
         let step = if slope.abs() > 1e-6 {
             -error / slope
         } else {
             -error / slope_guess
         };
-        previous = Some((alpha, row.cl));
-        alpha += step.clamp(-MAX_STEP_DEG, MAX_STEP_DEG);
+        let secant = alpha + step.clamp(-MAX_STEP_DEG, MAX_STEP_DEG);
+        if let (Some(s), Some(p)) = (short, past) {
+            let (lo, hi) = (s.0.min(p.0), s.0.max(p.0));
+            if hi - lo < MIN_BRACKET_DEG {
+                return Err(SolverError::Convergence(format!(
+                    "cl = {target_cl} was not reached at reynolds = {:e}: the lift jumps across \
+                     it between alpha_deg = {:.4} (cl {:.4}) and {:.4} (cl {:.4}), so no angle \
+                     gives that lift (free transition changing place, or the flow changing \
+                     regime, there); analyze those two angles for the nearest rows",
+                    settings.reynolds, s.0, s.1, p.0, p.1
+                )));
+            }
+            // Within the bracket: the secant where it stays well inside and the local slope
+            // has the right sign, else regula falsi, else bisection.
+            let inside = |a: f64| a > lo + 0.05 * (hi - lo) && a < hi - 0.05 * (hi - lo);
+            let chord = s.0 + (target_cl - s.1) * (p.0 - s.0) / (p.1 - s.1);
+            alpha = if slope * direction > 0.0 && inside(secant) {
+                secant
+            } else if inside(chord) {
+                chord
+            } else {
+                0.5 * (lo + hi)
+            };
+            continue;
+        }
+        // Lift that no longer grows towards the target: beyond maximum lift.
+        if !first && slope * direction <= 0.0 && error * direction < 0.0 {
+            break;
+        }
+        alpha = secant;
         if alpha.abs() > ALPHA_LIMIT_DEG {
             break;
         }
