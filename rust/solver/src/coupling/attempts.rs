@@ -12,6 +12,14 @@ use super::settings::ViscousSettings;
 /// first iterate (from the inviscid flow, or from a neighbour's mass defect).
 const STARTER_PASSES: usize = 20;
 
+/// `settings` limited to the starter's passes of the quasi-simultaneous iteration.
+fn starter_settings(settings: &ViscousSettings) -> ViscousSettings {
+    ViscousSettings {
+        max_iterations: STARTER_PASSES,
+        ..settings.clone()
+    }
+}
+
 /// Solve one angle. First the coupled Newton iteration from a first iterate made by a few passes
 /// of the quasi-simultaneous iteration from the inviscid flow, so that the answer does not depend
 /// on which other angles were asked for; then from the warm start's full iterate (the converged
@@ -50,11 +58,7 @@ fn coarse_start(
     fine: &CaseModel,
 ) -> Option<NewtonState> {
     let case = CaseModel::new(coarse, fine.alpha_deg, coarse_settings).ok()?;
-    let starter = ViscousSettings {
-        max_iterations: STARTER_PASSES,
-        ..coarse_settings.clone()
-    };
-    let first = solve_case(&case, &starter, None, PRIMARY).ok()?;
+    let first = solve_case(&case, &starter_settings(coarse_settings), None, PRIMARY).ok()?;
     let solution = CoupledProblem::new(&case, coarse_settings)
         .solve(&NewtonState::from_coupled(&first))
         .ok()?;
@@ -81,10 +85,7 @@ fn solve_case_model(
         converged
     };
     let warm_defect = warm_start.map(|w| w.mass_defect.as_slice());
-    let starter = ViscousSettings {
-        max_iterations: STARTER_PASSES,
-        ..settings.clone()
-    };
+    let starter = starter_settings(settings);
     let first_order_settings = ViscousSettings {
         wake_curvature: false,
         ..settings.clone()

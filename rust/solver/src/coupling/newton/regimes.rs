@@ -37,8 +37,6 @@ const BOUND_ITERATIONS: usize = 3;
 /// What the iteration remembers of each side's transition between calls of `update_regimes`.
 #[derive(Debug, Clone, Default)]
 pub(super) struct TransitionHistory {
-    /// Each side's last move between intervals, as case nodes (from, to).
-    pub last_moves: [Option<(usize, usize)>; 2],
     /// Every move each side has made in this solve, as case nodes (from, to), the trailing
     /// edge as [`OFF_TRAILING_EDGE`]: a move is made once at most, so no sequence of moves
     /// repeats (`refuses`).
@@ -48,6 +46,16 @@ pub(super) struct TransitionHistory {
 }
 
 impl TransitionHistory {
+    /// Side `side`'s last move between intervals, as case nodes (from, to): the last one made
+    /// that is not a pull-up from the trailing edge.
+    fn last_move(&self, side: usize) -> Option<(usize, usize)> {
+        self.made[side]
+            .iter()
+            .rev()
+            .find(|&&(from, _)| from != OFF_TRAILING_EDGE)
+            .copied()
+    }
+
     /// Whether side `side` has moved transition from case node `from` to `to` before in this
     /// solve (either may be [`OFF_TRAILING_EDGE`]), so that the move is not made again: the
     /// rule against undoing the last move stops a cycle between two intervals, this one a
@@ -60,12 +68,11 @@ impl TransitionHistory {
 }
 
 /// Stands for "off the trailing edge" (the layer laminar to it) as the target of a move in
-/// `last_moves`.
+/// the moves of a [`TransitionHistory`].
 const OFF_TRAILING_EDGE: usize = usize::MAX;
 
 /// Records a move of side `side`'s transition from case node `from` to `to` (either may be
-/// [`OFF_TRAILING_EDGE`]) among its moves and, unless it is a pull-up from the trailing edge,
-/// as its last move; releases a held point.
+/// [`OFF_TRAILING_EDGE`]) among its moves; releases a held point.
 fn note_move(
     history: &mut TransitionHistory,
     unknowns: &mut Unknowns,
@@ -74,9 +81,6 @@ fn note_move(
     to: usize,
 ) {
     history.made[side].push((from, to));
-    if from != OFF_TRAILING_EDGE {
-        history.last_moves[side] = Some((from, to));
-    }
     unknowns.pinned[side] = None;
 }
 
@@ -164,7 +168,7 @@ impl CoupledProblem<'_> {
     /// are accurate, any point outside its interval moves; from an unsettled one only points
     /// well outside (the equations of a point several intervals away are meaningless).
     ///
-    /// `history.last_moves` holds each side's last interval move as case nodes (from, to); a
+    /// `history.last_move` is each side's last interval move as case nodes (from, to); a
     /// move that would undo it is not made, nor one made before in this solve (`refuses`).
     /// Between two neighbouring intervals the discrete transition point can have no consistent
     /// place — in the upstream interval it settles beyond its end, in the downstream one before
@@ -205,11 +209,11 @@ impl CoupledProblem<'_> {
                 OFF_TRAILING_EDGE
             };
             let early = early.filter(|&j| {
-                let last_moves = &history.last_moves;
+                let last = history.last_move(side);
                 let undoes = if t < range.end {
-                    undoes_last(last_moves[side], layout, t, j)
+                    undoes_last(last, layout, t, j)
                 } else {
-                    last_moves[side] == Some((layout.nodes[j], OFF_TRAILING_EDGE))
+                    last == Some((layout.nodes[j], OFF_TRAILING_EDGE))
                 };
                 // (Nor, for a point held at its interval's end because it had no consistent
                 // place, by the N of the two stations before the transition station: the held
@@ -250,7 +254,8 @@ impl CoupledProblem<'_> {
             } else {
                 slack
             };
-            let undoes = |target: usize| undoes_last(history.last_moves[side], layout, t, target);
+            let last = history.last_move(side);
+            let undoes = |target: usize| undoes_last(last, layout, t, target);
             // Moves that may not be made: back over the last move, or made before.
             let up_blocked =
                 undoes(t - 1) || history.refuses(side, layout.nodes[t], layout.nodes[t - 1]);
@@ -516,11 +521,11 @@ mod tests {
         assert!(u.pinned[0].is_none());
         assert!(history.refuses(0, 10, 11) && !history.refuses(1, 10, 11));
         assert!(!history.refuses(0, 11, 12));
-        assert_eq!(history.last_moves[0], Some((10, 11)));
+        assert_eq!(history.last_move(0), Some((10, 11)));
         note_move(&mut history, &mut u, 0, OFF_TRAILING_EDGE, 9);
         assert!(history.refuses(0, OFF_TRAILING_EDGE, 9));
-        assert_eq!(history.last_moves[0], Some((10, 11)));
+        assert_eq!(history.last_move(0), Some((10, 11)));
         note_move(&mut history, &mut u, 0, 12, OFF_TRAILING_EDGE);
-        assert_eq!(history.last_moves[0], Some((12, OFF_TRAILING_EDGE)));
+        assert_eq!(history.last_move(0), Some((12, OFF_TRAILING_EDGE)));
     }
 }
