@@ -89,6 +89,45 @@ impl MonotoneCubic {
         }
     }
 
+    /// Where `t` falls in the abscissae, found once for several tables on the same abscissae
+    /// (see [`Self::value_at`] and [`Self::shares_abscissae`]).
+    pub fn position(&self, t: f64) -> TablePosition {
+        let n = self.x.len();
+        if t.is_nan() {
+            TablePosition::NotANumber
+        } else if t <= self.x[0] {
+            TablePosition::Below(t - self.x[0])
+        } else if t >= self.x[n - 1] {
+            TablePosition::Above(t - self.x[n - 1])
+        } else {
+            match self.locate(t) {
+                Located::Inside { i, h, s } => TablePosition::Inside { i, h, s },
+                // (Unreachable: t lies strictly inside here.)
+                Located::Outside(..) => TablePosition::NotANumber,
+            }
+        }
+    }
+
+    /// Value at a `position` found by a table with the same abscissae: exactly
+    /// [`Self::value`] at its abscissa.
+    pub fn value_at(&self, position: &TablePosition) -> f64 {
+        let n = self.y.len();
+        match *position {
+            TablePosition::NotANumber => f64::NAN,
+            TablePosition::Below(dx) => saturating(self.y[0], self.slope[0], self.low_width, dx).0,
+            TablePosition::Above(dx) => {
+                saturating(self.y[n - 1], self.slope[n - 1], self.high_width, dx).0
+            }
+            TablePosition::Inside { i, h, s } => self.cubic_value(i, h, s),
+        }
+    }
+
+    /// Whether `other` has exactly the same abscissae (so that a [`TablePosition`] of one
+    /// serves the other).
+    pub fn shares_abscissae(&self, other: &MonotoneCubic) -> bool {
+        self.x == other.x
+    }
+
     /// Where `t` falls: beyond an end (the extension's value and slope) or in interval `i` of
     /// length `h` at fraction `s`.
     #[inline]
@@ -167,6 +206,20 @@ impl MonotoneCubic {
     }
 }
 
+/// Where an abscissa falls in a table's abscissae, independent of its ordinates
+/// ([`MonotoneCubic::position`]).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum TablePosition {
+    /// The abscissa is NaN (every value is NaN).
+    NotANumber,
+    /// Below the first abscissa, by this (negative or zero) distance.
+    Below(f64),
+    /// Above the last abscissa, by this distance.
+    Above(f64),
+    /// In interval `i` of length `h`, at fraction `s` of it.
+    Inside { i: usize, h: f64, s: f64 },
+}
+
 /// Where an abscissa falls in the table (see `MonotoneCubic::locate`).
 enum Located {
     /// Beyond an end: the extension's value and slope.
@@ -234,6 +287,24 @@ mod tests {
         }
         let (v, d) = f.value_and_derivative(1.7);
         assert!((v - 4.4).abs() < 1e-12 && (d - 2.0).abs() < 1e-12);
+    }
+
+    #[test]
+    fn a_shared_position_gives_exactly_the_value() {
+        // Our design: a position found once serves every table on the same abscissae, with
+        // the same value as a lookup of its own, inside, on the nodes, beyond both ends, NaN.
+        let x = vec![0.0, 0.5, 1.5, 2.0, 3.5];
+        let f = MonotoneCubic::new(x.clone(), vec![1.0, 2.0, 2.5, 2.4, 4.0], 0.7).unwrap();
+        let g = MonotoneCubic::new(x, vec![-1.0, 0.3, 0.2, 0.9, 1.0], 0.7).unwrap();
+        assert!(f.shares_abscissae(&g));
+        for t in [-2.0, -0.1, 0.0, 0.2, 0.5, 1.49, 2.0, 3.0, 3.5, 5.0] {
+            let at = f.position(t);
+            assert_eq!(f.value_at(&at).to_bits(), f.value(t).to_bits(), "t = {t}");
+            assert_eq!(g.value_at(&at).to_bits(), g.value(t).to_bits(), "t = {t}");
+        }
+        assert!(g.value_at(&f.position(f64::NAN)).is_nan());
+        let other = MonotoneCubic::new(vec![0.0, 1.0], vec![0.0, 1.0], 1.0).unwrap();
+        assert!(!f.shares_abscissae(&other));
     }
 
     #[test]

@@ -50,9 +50,11 @@ impl LaminarTerms {
     }
 
     pub(crate) fn new(state: &LayerState, reynolds: f64, closure: &dyn LaminarClosure) -> Self {
-        let (cf, cd) = laminar_coefficients(state, reynolds, closure);
         let h = state.shape_factor;
-        let h_star = closure.energy_shape_factor(h);
+        let [h_star, cf_re_theta, cd_re_theta] = closure.values(h);
+        // (As in `laminar_coefficients`.)
+        let re_theta = (reynolds * state.edge_velocity * state.theta).max(1e-12);
+        let (cf, cd) = (cf_re_theta / re_theta, cd_re_theta / re_theta);
         let theta = state.theta;
         Self {
             source: [0.5 * cf / theta, (2.0 * cd - 0.5 * h_star * cf) / theta],

@@ -22,6 +22,14 @@ pub trait LaminarClosure: Send + Sync {
     fn skin_friction_re_theta(&self, h: f64) -> f64;
     /// CD·Reθ with CD = D/(ρ ue³) the dissipation coefficient.
     fn dissipation_re_theta(&self, h: f64) -> f64;
+    /// The three at once, [H*, Cf·Reθ, CD·Reθ] (a table-backed closure locates H once).
+    fn values(&self, h: f64) -> [f64; 3] {
+        [
+            self.energy_shape_factor(h),
+            self.skin_friction_re_theta(h),
+            self.dissipation_re_theta(h),
+        ]
+    }
 }
 
 /// Largest saturation width, in units of H, of the extensions beyond the table's ends.
@@ -118,6 +126,7 @@ impl FalknerSkanClosure {
             MonotoneCubic::new(h.clone(), table.column(name, what)?, EXTENSION_WIDTH)
                 .map_err(|e| format!("{what}, column {name}: {e}"))
         };
+        // (All on the same abscissae, the column of shape factors: `values` locates H once.)
         Ok(Self {
             energy_shape_factor: build("energy_shape_factor")?,
             skin_friction_re_theta: build("skin_friction_re_theta")?,
@@ -169,6 +178,15 @@ impl LaminarClosure for FalknerSkanClosure {
     fn dissipation_re_theta(&self, h: f64) -> f64 {
         self.dissipation_re_theta.value(h)
     }
+    fn values(&self, h: f64) -> [f64; 3] {
+        // (The tables share their abscissae, the shape factors of the table: `from_csv`.)
+        let at = self.energy_shape_factor.position(h);
+        [
+            self.energy_shape_factor.value_at(&at),
+            self.skin_friction_re_theta.value_at(&at),
+            self.dissipation_re_theta.value_at(&at),
+        ]
+    }
 }
 
 #[cfg(test)]
@@ -182,6 +200,28 @@ mod tests {
         let c = FalknerSkanClosure::shipped();
         let (lo, hi) = c.shape_factor_range();
         assert!(lo < 2.2 && hi >= 10.0, "range {lo}..{hi}");
+    }
+
+    #[test]
+    fn the_three_closures_at_once_are_the_three_apart() {
+        // Our design: `values` locates H once and gives bit for bit the separate lookups,
+        // inside the table, at its ends and on the extensions beyond them.
+        let c = FalknerSkanClosure::shipped();
+        let (lo, hi) = c.shape_factor_range();
+        for h in [lo - 1.0, lo, 2.3, BLASIUS_H, 3.5, 4.03, 7.0, hi, hi + 3.0] {
+            let [h_star, cf, cd] = c.values(h);
+            assert_eq!(
+                h_star.to_bits(),
+                c.energy_shape_factor(h).to_bits(),
+                "H = {h}"
+            );
+            assert_eq!(
+                cf.to_bits(),
+                c.skin_friction_re_theta(h).to_bits(),
+                "H = {h}"
+            );
+            assert_eq!(cd.to_bits(), c.dissipation_re_theta(h).to_bits(), "H = {h}");
+        }
     }
 
     #[test]

@@ -123,13 +123,15 @@ impl OrrSommerfeldEnvelope {
             })
             .collect::<Result<Vec<_>, String>>()
             .map_err(|e| format!("{what}: {e}"))?;
+        let log_critical_re_theta =
+            MonotoneCubic::new(shape_factors, log_critical, SHAPE_FACTOR_EXTENSION)
+                .map_err(|e| format!("{what}: {e}"))?;
+        // (`envelope_slope` locates H once for all of them.)
+        debug_assert!(slopes
+            .iter()
+            .all(|s| s.shares_abscissae(&log_critical_re_theta)));
         Ok(Self {
-            log_critical_re_theta: MonotoneCubic::new(
-                shape_factors,
-                log_critical,
-                SHAPE_FACTOR_EXTENSION,
-            )
-            .map_err(|e| format!("{what}: {e}"))?,
+            log_critical_re_theta,
             log_ratios: ratios.iter().map(|r| r.ln()).collect(),
             slopes,
             closure,
@@ -146,12 +148,14 @@ impl OrrSommerfeldEnvelope {
         if re_theta.is_nan() || re_theta <= 0.0 {
             return 0.0;
         }
-        let x = (re_theta / self.critical_re_theta(h)).ln();
+        // Every table in H shares the critical Reθ's abscissae (`from_csv`): located once.
+        let at = self.log_critical_re_theta.position(h);
+        let x = (re_theta / self.log_critical_re_theta.value_at(&at).exp()).ln();
         if x <= 0.0 {
             return 0.0;
         }
         // Only the nodes the interpolation touches are evaluated (at most four).
-        let value = |j: usize| self.slopes[j].value(h).max(0.0);
+        let value = |j: usize| self.slopes[j].value_at(&at).max(0.0);
         onset_hermite(&self.log_ratios, &value, x).max(0.0)
     }
 }
