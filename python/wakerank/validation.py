@@ -11,6 +11,8 @@ comparison names its source. Published values:
   approximate): cd ≈ 0.0058 near zero lift, 0.0066 at cl 0.46.
 - Lift slope of the NACA 0012: McCroskey, AGARD CP-429 / NASA TM-100019 (1988), fit
   dcl/dα = (0.1025 + 0.00485 log10(Re/1e6)) / √(1 − M²) per degree.
+- Maximum lift of the NACA 0012 at M 0.15: Ladson, NASA TM-4074 (1988): 1.61–1.63 near 17°
+  tripped at Re 6e6; 1.66 (Re 5.97e6) and 1.41 (Re 2e6) with free transition.
 - Flat plates, one side: Blasius CF = 1.328/√Re (Schlichting & Gersten, *Boundary-Layer
   Theory*) and Kármán–Schoenherr 0.242/√CF = log10(Re·CF) (turbulent, tripped at the
   leading edge).
@@ -164,6 +166,40 @@ def lift_slope(panels: int = 160) -> list[Comparison]:
     ]
 
 
+#: Maximum lift of the NACA 0012 at M 0.15 (Ladson, NASA TM-4074, 1988; values as collected in
+#: the project's reference notes): (label, Reynolds number, trip x/c or None, published cl_max,
+#: angles swept in 1° steps).
+LADSON_MAXIMUM_LIFT = (
+    ("tripped x/c 0.05", 6e6, 0.05, 1.62, (12, 18)),
+    ("free transition", 5.97e6, None, 1.66, (14, 20)),
+    ("free transition", 2.0e6, None, 1.41, (12, 18)),
+)
+
+
+def maximum_lift(panels: int = 160) -> list[Comparison]:
+    """Largest converged cl of the NACA 0012 (M 0.15) beside Ladson's maximum lift.
+
+    The computed value is the largest cl among the converged points of a sweep in 1° steps;
+    where the iteration stops converging before the lift falls it is the model's lift at the
+    last converged angle, not a stall it predicted (docs/validation.md, "Maximum lift").
+    """
+    import wakerank as wr
+
+    out: list[Comparison] = []
+    for label, reynolds, trip, published, (first, last) in LADSON_MAXIMUM_LIFT:
+        polar = wr.analyze(
+            naca0012(), alpha_deg=[float(a) for a in range(first, last + 1)],
+            reynolds=reynolds, mach=0.15, trip_upper=trip, trip_lower=trip, panels=panels,
+        )
+        ok = polar.filter(pl.col("converged"))
+        computed = float(ok["cl"].max()) if ok.height else float("nan")
+        out.append(Comparison(
+            f"NACA 0012 {label}", "cl_max", f"Re {reynolds:.3g}, α {first}°–{last}°",
+            published, computed, "Ladson NASA TM-4074",
+        ))
+    return out
+
+
 def karman_schoenherr(reynolds: float) -> float:
     """Kármán–Schoenherr one-side turbulent plate CF: 0.242/√CF = log10(Re·CF), solved."""
     cf = 0.074 * reynolds**-0.2
@@ -195,6 +231,7 @@ def run_all(panels: int = 160) -> pl.DataFrame:
         + abbott_free_transition(panels)
         + ladson_tripped(panels)
         + lift_slope(panels)
+        + maximum_lift(panels)
         + flat_plates()
     )
     return pl.DataFrame(
@@ -218,6 +255,7 @@ __all__ = [
     "ladson_free_transition",
     "ladson_tripped",
     "lift_slope",
+    "maximum_lift",
     "flat_plates",
     "karman_schoenherr",
     "mccroskey_lift_slope",

@@ -68,3 +68,34 @@ def test_tripped_lift_slope_re6e6(naca0012):
     assert polar["converged"].all()
     slope = np.polyfit(polar["alpha_deg"].to_numpy(), polar["cl"].to_numpy(), 1)[0]
     assert slope == pytest.approx(mccroskey_lift_slope(6e6, 0.15), rel=0.05)
+
+
+@pytest.fixture(scope="module")
+def maximum_lift():
+    from wakerank.validation import maximum_lift as comparisons
+
+    return {(c.case, c.condition): c for c in comparisons()}
+
+
+def test_tripped_maximum_lift_re6e6(maximum_lift):
+    # Ladson NASA TM-4074, grit at x/c 0.05, Re 6e6: cl,max 1.61–1.63 near 17°
+    # (../shared/guide/reference-data.md) [T]. Within 5 %, the tolerance of the lift slope.
+    # The computed value is the largest converged cl of a 1° sweep: the iteration stops
+    # converging above 17°, where the tunnel's section stalls (docs/validation.md).
+    (tripped,) = [c for (case, _), c in maximum_lift.items() if "tripped" in case]
+    assert tripped.computed == pytest.approx(tripped.published, rel=0.05), tripped
+
+
+@pytest.mark.xfail(
+    reason="known miss, docs/validation.md 'Maximum lift': with free transition the computed "
+    "lift keeps rising past Ladson's maximum (1.85 against 1.66 at Re 5.97e6, 1.68 against "
+    "1.41 at 2e6); the bursting of the leading-edge bubble that stalls the section is not "
+    "modelled",
+    strict=True,
+)
+def test_free_transition_maximum_lift(maximum_lift):
+    # Ladson NASA TM-4074 Table I, free transition: cl,max 1.66 (Re 5.97e6), 1.41 (2e6) [T].
+    free = [c for (case, _), c in maximum_lift.items() if "free" in case]
+    assert len(free) == 2
+    for c in free:
+        assert c.computed == pytest.approx(c.published, rel=0.10), c
