@@ -25,9 +25,7 @@ use crate::error::{Result, SolverError};
 use super::anderson::AndersonMixer;
 use super::model::CaseModel;
 use super::settings::ViscousSettings;
-use super::stagnation::{
-    arc_length_at_x, locate_stagnation, split_surface, SideNodes, SurfaceSplit,
-};
+use super::stagnation::{layer_trips, locate_stagnation, split_surface, SideNodes, SurfaceSplit};
 
 /// How the outer iteration is run: the cap on c·δ* and the Anderson mixing factor.
 ///
@@ -238,12 +236,12 @@ pub(crate) fn solve_case(
         };
 
         // 2–3. march both surfaces.
-        let trip_upper = settings
-            .trip_upper
-            .and_then(|xt| arc_length_at_x(&split.upper, &case.x, xt, stagnation.x));
-        let trip_lower = settings
-            .trip_lower
-            .and_then(|xt| arc_length_at_x(&split.lower, &case.x, xt, stagnation.x));
+        let [trip_upper, trip_lower] = layer_trips(
+            &split,
+            &case.arc,
+            &case.x[..ns],
+            [settings.trip_upper, settings.trip_lower],
+        );
         let upper_in = side_input(case, &split.upper, &q, &m, stag, cap);
         let lower_in = side_input(case, &split.lower, &q, &m, stag, cap);
         let upper = march_side(&upper_in.view(), &march_settings(settings, trip_upper));

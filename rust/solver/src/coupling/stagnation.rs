@@ -161,6 +161,67 @@ pub fn arc_length_at_x(
     None
 }
 
+/// Arc lengths from the stagnation point at which the upper and lower layers are tripped, for
+/// trips at x/c `trips` = [on the section's upper surface, on its lower surface].
+///
+/// The surfaces are the contour's two parts either side of the leading edge (the node of least
+/// x): nodes 0 to it (upper), it to the last (lower). Each trip sits at the first point of its
+/// surface, going aft from the leading edge, with that x; a layer is tripped at the first trip
+/// it passes over, whichever surface it is on — at a high angle of attack the upper layer
+/// starts on the lower surface and passes the lower-surface trip on its way to the leading
+/// edge, and the upper-surface trip lies on the upper surface, not where the layer first has
+/// that x. A layer whose own surface's trip lies ahead of its start (between the leading edge
+/// and a stagnation point beyond the trip) is tripped at its start, as a trip in the
+/// stagnation region it starts from. `arc` and `x` are the surface nodes' arc lengths (from
+/// the upper trailing edge) and abscissae; `None` for a layer that passes no trip.
+pub fn layer_trips(
+    split: &SurfaceSplit,
+    arc: &[f64],
+    x: &[f64],
+    trips: [Option<f64>; 2],
+) -> [Option<f64>; 2] {
+    let n = arc.len().min(x.len());
+    if n < 2 {
+        return [None, None];
+    }
+    let leading_edge = (0..n).min_by(|&a, &b| x[a].total_cmp(&x[b])).unwrap_or(0);
+    let stagnation = split.stagnation.s;
+    let mut out = [None::<f64>; 2];
+    let mut trip_layer = |layer: usize, s: f64| {
+        let s = s.max(0.0);
+        out[layer] = Some(out[layer].map_or(s, |t: f64| t.min(s)));
+    };
+    for (surface, x_trip) in trips.iter().enumerate() {
+        let Some(x_trip) = *x_trip else { continue };
+        // Contour arc length of the trip: from the leading edge aft along the surface.
+        let along: Vec<usize> = if surface == 0 {
+            (0..=leading_edge).rev().collect()
+        } else {
+            (leading_edge..n).collect()
+        };
+        let at = if x_trip <= x[leading_edge] {
+            Some(arc[leading_edge])
+        } else {
+            along.windows(2).find(|w| x[w[1]] >= x_trip).map(|w| {
+                let (p, q) = (w[0], w[1]);
+                let t = ((x_trip - x[p]) / (x[q] - x[p])).clamp(0.0, 1.0);
+                arc[p] + t * (arc[q] - arc[p])
+            })
+        };
+        let Some(at) = at else { continue };
+        // The layer that passes over it: the upper one runs from the stagnation point towards
+        // decreasing arc length, the lower one towards increasing.
+        let on_upper_layer = at <= stagnation;
+        trip_layer(usize::from(!on_upper_layer), (stagnation - at).abs());
+        // On the other layer's path, the stagnation point lies on this surface aft of the
+        // trip: this surface's own layer starts tripped.
+        if (surface == 0) != on_upper_layer {
+            trip_layer(surface, 0.0);
+        }
+    }
+    out
+}
+
 /// x of a side at arc length `s` from the stagnation point (linear between nodes).
 pub fn x_at_arc_length(side: &SideNodes, x: &[f64], s: f64, stagnation_x: f64) -> f64 {
     let mut prev_s = 0.0;
@@ -248,6 +309,61 @@ mod tests {
         let q = vec![1.0; 10];
         let s: Vec<f64> = (0..10).map(|i| i as f64).collect();
         assert!(locate_stagnation(&q, &s, &s, &s).is_err());
+    }
+
+    /// A contour of 9 nodes on a wedge-like section: upper surface nodes 0–4 (x 1.0 … 0.0,
+    /// the leading edge at node 4), lower 4–8; arc length = distance in x along the contour.
+    fn wedge() -> (Vec<f64>, Vec<f64>) {
+        let x = vec![1.0, 0.75, 0.5, 0.25, 0.0, 0.25, 0.5, 0.75, 1.0];
+        let arc = vec![0.0, 0.25, 0.5, 0.75, 1.0, 1.25, 1.5, 1.75, 2.0];
+        (x, arc)
+    }
+
+    fn split_at(arc: &[f64], x: &[f64], stagnation_s: f64) -> SurfaceSplit {
+        let node = arc
+            .iter()
+            .rposition(|&a| a <= stagnation_s)
+            .unwrap()
+            .min(arc.len() - 2);
+        let t = (stagnation_s - arc[node]) / (arc[node + 1] - arc[node]);
+        let st = StagnationPoint {
+            node,
+            s: stagnation_s,
+            x: x[node] + t * (x[node + 1] - x[node]),
+            y: 0.0,
+        };
+        split_surface(st, arc)
+    }
+
+    /// Our design (docs/method.md, "Stagnation point"): a trip sits on its own surface at its
+    /// x/c and trips whichever layer passes over it; a layer whose own surface's trip lies
+    /// ahead of its start starts tripped.
+    #[test]
+    fn trips_sit_on_their_surface_and_trip_the_layer_passing_over_them() {
+        let (x, arc) = wedge();
+        let close = |a: Option<f64>, b: f64| a.is_some_and(|a| (a - b).abs() < 1e-12);
+        // Stagnation point at the leading edge: each layer meets its own trip at x/c.
+        let split = split_at(&arc, &x, 1.0);
+        let [u, l] = layer_trips(&split, &arc, &x, [Some(0.3), Some(0.6)]);
+        assert!(close(u, 0.3) && close(l, 0.6), "{u:?} {l:?}");
+        // High angle of attack: stagnation point on the lower surface at x 0.2 (arc 1.2). The
+        // upper layer passes the lower trip at x 0.1 (arc 1.1) first, 0.1 from its start; the
+        // lower layer starts aft of its own trip and starts tripped.
+        let split = split_at(&arc, &x, 1.2);
+        let [u, l] = layer_trips(&split, &arc, &x, [Some(0.3), Some(0.1)]);
+        assert!(close(u, 0.1) && close(l, 0.0), "{u:?} {l:?}");
+        // An upper trip alone lies on the upper surface, 0.5 along the upper layer (0.2 to the
+        // leading edge, 0.3 beyond it), not at the layer's start.
+        let [u, l] = layer_trips(&split, &arc, &x, [Some(0.3), None]);
+        assert!(close(u, 0.5) && l.is_none(), "{u:?} {l:?}");
+        // A lower trip aft of the stagnation point trips the lower layer only.
+        let [u, l] = layer_trips(&split, &arc, &x, [None, Some(0.5)]);
+        assert!(u.is_none() && close(l, 0.3), "{u:?} {l:?}");
+        // Beyond the trailing edge: no trip.
+        assert_eq!(
+            layer_trips(&split, &arc, &x, [Some(1.5), None]),
+            [None, None]
+        );
     }
 
     #[test]

@@ -423,3 +423,32 @@ fn a_first_order_wake_solution_starts_the_full_model() {
         "lift slope {before:.4} per degree at 6°–7°, {last:.4} at 7°–8°"
     );
 }
+
+#[test]
+fn an_upper_surface_trip_lies_on_the_upper_surface_at_high_angles_of_attack() {
+    // Our design (docs/method.md, "Stagnation point"): a trip sits on its own surface. At 16°
+    // the stagnation point lies on the lower surface aft of x/c 0.05, and the upper layer first
+    // reaches x 0.05 just after it; until version 0.4.3 the trip was put there and the whole
+    // upper layer ran turbulent from the stagnation point (cd 0.0224 against 0.0175 free).
+    // Now the upper layer meets the trip on the upper surface, after its own free transition
+    // in the leading-edge laminar separation, so the row is the free-transition one.
+    let section = naca::from_designation("0012", false, 200).unwrap();
+    let free = ViscousSettings {
+        mach: 0.15,
+        ..ViscousSettings::new(5.97e6)
+    };
+    let tripped = ViscousSettings {
+        trip_upper: Some(0.05),
+        ..free.clone()
+    };
+    let a = analyze_viscous(&section, &[16.0], &free).unwrap();
+    let b = analyze_viscous(&section, &[16.0], &tripped).unwrap();
+    assert!(a[0].converged && b[0].converged);
+    assert!(b[0].transition_upper < 0.05, "{:?}", b[0]);
+    assert!(
+        (a[0].cd - b[0].cd).abs() < 1e-9 * a[0].cd,
+        "{} {}",
+        a[0].cd,
+        b[0].cd
+    );
+}

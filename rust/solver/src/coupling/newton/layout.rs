@@ -19,7 +19,7 @@ use std::sync::Arc;
 use crate::linalg::DenseMatrix;
 
 use super::super::model::CaseModel;
-use super::super::stagnation::{arc_length_at_x, SideNodes, SurfaceSplit};
+use super::super::stagnation::{layer_trips, SideNodes, SurfaceSplit};
 
 /// What a station's residuals start from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -196,10 +196,7 @@ impl Layout {
             }
             Arc::new(folded)
         };
-        let trip_s = [
-            trips[0].and_then(|xt| arc_length_at_x(&split.upper, &case.x, xt, split.stagnation.x)),
-            trips[1].and_then(|xt| arc_length_at_x(&split.lower, &case.x, xt, split.stagnation.x)),
-        ];
+        let trip_s = layer_trips(&split, &case.arc, &case.x[..case.n_surface], trips);
         Layout {
             split,
             nodes,
