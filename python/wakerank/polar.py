@@ -8,7 +8,8 @@ table:
   separation on either surface (``separation_upper`` and ``separation_lower`` are null);
 * cl_max is the largest cl among converged points, at ``alpha_cl_max_deg``; ``stall_reached``
   says whether a converged point past that angle has a lower cl (otherwise cl_max is only a
-  lower bound: the grid or the solver stopped first);
+  lower bound of the model's maximum lift: the grid or the solver stopped first; the model's
+  maximum lift itself runs high with free transition, docs/validation.md);
 * values at a design cl are linear interpolations in cl between two usable points that are
   neighbours on the condition's angle grid (the union of angles of all polars of that
   condition), both at or below ``alpha_cl_max_deg``. A non-converged, separated or missing

@@ -164,8 +164,9 @@ def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> N
         console.print("no section meets the constraints at these conditions")
     elif not all(shortlist["stall_reached"]):
         console.print(
-            "margin = cl_max - design cl; + : cl_max not reached within the converged angles, "
-            "so the margin is a lower bound"
+            "margin = cl_max - design cl; + : the lift still rose at the last converged angle, "
+            "so the margin is a lower bound of the model's; the model's maximum lift runs high "
+            "with free transition (docs/validation.md, 'Maximum lift')"
         )
     if first_order_seen:
         console.print(
