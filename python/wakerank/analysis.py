@@ -188,7 +188,9 @@ def analyze(
     the integral boundary layer (coupled Newton solution), drag from the far wake.
     Options: ``n_factor`` (critical N, 1–20, default 9), ``turbulence_intensity`` (a fraction,
     0.0001–0.05, turned into N by Mack's relation), ``trip_upper`` / ``trip_lower`` (forced
-    transition at x/c in [0, 1]); mach 0–0.7. Columns: alpha_deg, cl, cd (far wake, 2θ∞/c),
+    transition at x/c in [0, 1] on the upper / lower surface; a trip trips whichever layer
+    passes over it, so at high angles of attack the lower trip, ahead of the stagnation
+    point, trips the upper layer); mach 0–0.7. Columns: alpha_deg, cl, cd (far wake, 2θ∞/c),
     cd_squire_young, cd_friction, cd_pressure, cm_c4, cp_min, transition_upper,
     transition_lower (x/c), separation_upper, separation_lower (x/c of turbulent separation,
     null when none), converged, iterations, residual, wake_curvature (whether the row includes
