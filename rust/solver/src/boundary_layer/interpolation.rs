@@ -83,72 +83,24 @@ impl MonotoneCubic {
 
     /// Value at `t` (the same value as [`Self::value_and_derivative`], without the derivative).
     pub fn value(&self, t: f64) -> f64 {
-        match self.locate(t) {
-            Located::Outside(v, _) => v,
-            Located::Inside { i, h, s } => self.cubic_value(i, h, s),
-        }
+        self.value_at(&self.position(t))
     }
 
-    /// Where `t` falls in the abscissae, found once for several tables on the same abscissae
-    /// (see [`Self::value_at`] and [`Self::shares_abscissae`]).
+    /// Where `t` falls in the abscissae: beyond an end, or in interval `i` of length `h` at
+    /// fraction `s`. Found once, it serves every table on the same abscissae
+    /// ([`Self::value_at`], [`Self::shares_abscissae`]).
+    #[inline]
     pub fn position(&self, t: f64) -> TablePosition {
         let n = self.x.len();
         if t.is_nan() {
-            TablePosition::NotANumber
-        } else if t <= self.x[0] {
-            TablePosition::Below(t - self.x[0])
-        } else if t >= self.x[n - 1] {
-            TablePosition::Above(t - self.x[n - 1])
-        } else {
-            match self.locate(t) {
-                Located::Inside { i, h, s } => TablePosition::Inside { i, h, s },
-                // (Unreachable: t lies strictly inside here.)
-                Located::Outside(..) => TablePosition::NotANumber,
-            }
-        }
-    }
-
-    /// Value at a `position` found by a table with the same abscissae: exactly
-    /// [`Self::value`] at its abscissa.
-    pub fn value_at(&self, position: &TablePosition) -> f64 {
-        let n = self.y.len();
-        match *position {
-            TablePosition::NotANumber => f64::NAN,
-            TablePosition::Below(dx) => saturating(self.y[0], self.slope[0], self.low_width, dx).0,
-            TablePosition::Above(dx) => {
-                saturating(self.y[n - 1], self.slope[n - 1], self.high_width, dx).0
-            }
-            TablePosition::Inside { i, h, s } => self.cubic_value(i, h, s),
-        }
-    }
-
-    /// Whether `other` has exactly the same abscissae (so that a [`TablePosition`] of one
-    /// serves the other).
-    pub fn shares_abscissae(&self, other: &MonotoneCubic) -> bool {
-        self.x == other.x
-    }
-
-    /// Where `t` falls: beyond an end (the extension's value and slope) or in interval `i` of
-    /// length `h` at fraction `s`.
-    #[inline]
-    fn locate(&self, t: f64) -> Located {
-        let n = self.x.len();
-        if t.is_nan() {
             // Never index with NaN: the caller sees NaN and flags its result.
-            return Located::Outside(f64::NAN, f64::NAN);
+            return TablePosition::NotANumber;
         }
         if t <= self.x[0] {
-            let (v, d) = saturating(self.y[0], self.slope[0], self.low_width, t - self.x[0]);
-            return Located::Outside(v, d);
+            return TablePosition::Below(t - self.x[0]);
         }
         if t >= self.x[n - 1] {
-            let (v, d) = saturating(
-                self.y[n - 1],
-                self.slope[n - 1],
-                self.high_width,
-                t - self.x[n - 1],
-            );
-            return Located::Outside(v, d);
+            return TablePosition::Above(t - self.x[n - 1]);
         }
         // The largest i with x[i] ≤ t (x[0] < t < x[n − 1] here): from the bucket's start, then
         // a step or two either way (the steps back guard against rounding of the bucket index).
@@ -162,10 +114,38 @@ impl MonotoneCubic {
             i += 1;
         }
         let h = self.x[i + 1] - self.x[i];
-        Located::Inside {
+        TablePosition::Inside {
             i,
             h,
             s: (t - self.x[i]) / h,
+        }
+    }
+
+    /// Value at a `position` found by a table with the same abscissae: exactly
+    /// [`Self::value`] at its abscissa.
+    #[inline]
+    pub fn value_at(&self, position: &TablePosition) -> f64 {
+        match *position {
+            TablePosition::Inside { i, h, s } => self.cubic_value(i, h, s),
+            _ => self.extension(position).0,
+        }
+    }
+
+    /// Whether `other` has exactly the same abscissae (so that a [`TablePosition`] of one
+    /// serves the other).
+    pub fn shares_abscissae(&self, other: &MonotoneCubic) -> bool {
+        self.x == other.x
+    }
+
+    /// Value and slope of the bounded extension at a position beyond an end (NaN for NaN).
+    fn extension(&self, position: &TablePosition) -> (f64, f64) {
+        let n = self.y.len();
+        match *position {
+            TablePosition::Below(dx) => saturating(self.y[0], self.slope[0], self.low_width, dx),
+            TablePosition::Above(dx) => {
+                saturating(self.y[n - 1], self.slope[n - 1], self.high_width, dx)
+            }
+            _ => (f64::NAN, f64::NAN),
         }
     }
 
@@ -184,9 +164,9 @@ impl MonotoneCubic {
 
     /// Value and first derivative at `t` (the derivative is continuous everywhere).
     pub fn value_and_derivative(&self, t: f64) -> (f64, f64) {
-        let (i, h, s) = match self.locate(t) {
-            Located::Outside(v, d) => return (v, d),
-            Located::Inside { i, h, s } => (i, h, s),
+        let position = self.position(t);
+        let TablePosition::Inside { i, h, s } = position else {
+            return self.extension(&position);
         };
         let value = self.cubic_value(i, h, s);
         let (y0, y1) = (self.y[i], self.y[i + 1]);
@@ -216,14 +196,6 @@ pub enum TablePosition {
     Below(f64),
     /// Above the last abscissa, by this distance.
     Above(f64),
-    /// In interval `i` of length `h`, at fraction `s` of it.
-    Inside { i: usize, h: f64, s: f64 },
-}
-
-/// Where an abscissa falls in the table (see `MonotoneCubic::locate`).
-enum Located {
-    /// Beyond an end: the extension's value and slope.
-    Outside(f64, f64),
     /// In interval `i` of length `h`, at fraction `s` of it.
     Inside { i: usize, h: f64, s: f64 },
 }
@@ -348,16 +320,16 @@ mod tests {
             } else {
                 None
             };
-            match (f.locate(t), expected) {
-                (Located::Inside { i, .. }, Some(j)) => assert_eq!(i, j, "at {t}"),
-                (Located::Outside(..), None) => {}
+            match (f.position(t), expected) {
+                (TablePosition::Inside { i, .. }, Some(j)) => assert_eq!(i, j, "at {t}"),
+                (TablePosition::Below(_) | TablePosition::Above(_), None) => {}
                 _ => panic!("inside/outside mismatch at {t}"),
             }
         }
         for &t in &x[1..39] {
-            match f.locate(t) {
-                Located::Inside { i, s, .. } => assert!(x[i] == t && s == 0.0),
-                Located::Outside(..) => panic!("node {t} outside"),
+            match f.position(t) {
+                TablePosition::Inside { i, s, .. } => assert!(x[i] == t && s == 0.0),
+                _ => panic!("node {t} outside"),
             }
         }
     }
