@@ -30,8 +30,8 @@ pub use settings::{
     TURBULENCE_INTENSITY_RANGE,
 };
 pub use stagnation::{
-    arc_length_at_x, layer_trips, locate_stagnation, split_surface, x_at_arc_length, SideNodes,
-    StagnationPoint, SurfaceSplit,
+    layer_trips, locate_stagnation, split_surface, x_at_arc_length, SideNodes, StagnationPoint,
+    SurfaceSplit,
 };
 pub use sweep::{analyze_viscous, boundary_layer_stations, ViscousAnalysis};
 pub use target_cl::solve_for_cl;

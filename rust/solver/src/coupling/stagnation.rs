@@ -131,36 +131,6 @@ pub fn split_surface(stagnation: StagnationPoint, arc: &[f64]) -> SurfaceSplit {
     }
 }
 
-/// Arc length from the stagnation point at which a side reaches `x_over_c` going downstream
-/// (first crossing), interpolated between nodes; `None` when the side never reaches it.
-/// Used to turn a trip position x/c into the boundary layer's own coordinate.
-pub fn arc_length_at_x(
-    side: &SideNodes,
-    x: &[f64],
-    x_over_c: f64,
-    stagnation_x: f64,
-) -> Option<f64> {
-    let mut prev_s = 0.0;
-    let mut prev_x = stagnation_x;
-    if x_over_c <= stagnation_x {
-        return Some(0.0);
-    }
-    for (&node, &s) in side.nodes.iter().zip(&side.s) {
-        let xn = x[node];
-        if xn >= x_over_c {
-            let t = if (xn - prev_x).abs() > 0.0 {
-                (x_over_c - prev_x) / (xn - prev_x)
-            } else {
-                1.0
-            };
-            return Some(prev_s + t.clamp(0.0, 1.0) * (s - prev_s));
-        }
-        prev_s = s;
-        prev_x = xn;
-    }
-    None
-}
-
 /// Arc lengths from the stagnation point at which the upper and lower layers are tripped, for
 /// trips at x/c `trips` = [on the section's upper surface, on its lower surface].
 ///
@@ -367,15 +337,12 @@ mod tests {
     }
 
     #[test]
-    fn trip_position_maps_to_arc_length() {
+    fn arc_length_maps_to_x() {
         let side = SideNodes {
             nodes: vec![0, 1, 2],
             s: vec![0.1, 0.2, 0.3],
         };
         let x = [0.1, 0.2, 0.3];
-        let s = arc_length_at_x(&side, &x, 0.25, 0.0).unwrap();
-        assert!((s - 0.25).abs() < 1e-12);
         assert!((x_at_arc_length(&side, &x, 0.25, 0.0) - 0.25).abs() < 1e-12);
-        assert!(arc_length_at_x(&side, &x, 0.5, 0.0).is_none());
     }
 }
