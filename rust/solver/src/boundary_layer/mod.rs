@@ -16,4 +16,4 @@ pub mod wake;
 pub use march::march_surface;
 pub(crate) use station::LayerState;
 pub use station::{MarchSettings, Regime, SideInput, SideSolution, Station};
-pub use wake::march_wake;
+pub use wake::{march_wake, march_wake_with, LaminarTrailingEdge};

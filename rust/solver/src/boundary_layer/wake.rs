@@ -1,7 +1,7 @@
 //! Wake march: the lag-entrainment equations continued behind the trailing edge with no wall
 //! friction and the wake's dissipation-length factor (Green, Weeks & Brooman 1977).
 
-use super::lag_entrainment::WAKE_SHAPE_FACTOR_RANGE;
+use super::lag_entrainment::{turbulent_start, WAKE_SHAPE_FACTOR_RANGE};
 use super::march::{
     extrapolated, finite_or, make_station, turbulent_step, EdgeCondition, StepMemory,
 };
@@ -10,7 +10,21 @@ use super::station::{
     SideSolution, Station,
 };
 
-/// Marches the wake from the trailing edge. `input.s` is measured from the trailing edge (the
+/// How a side still laminar at the trailing edge enters the wake's start.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum LaminarTrailingEdge {
+    /// As it is, contributing no entrainment: the lag equation builds the wake's shear stress
+    /// up from the other side's.
+    #[default]
+    AsLaminar,
+    /// Turbulent from the trailing edge, with the turbulent start of any transition
+    /// ([`super::lag_entrainment::turbulent_start`]: θ kept, H capped, CE at equilibrium) —
+    /// the wake start of the coupled Newton system, whose wake equations are turbulent.
+    TurbulentStart,
+}
+
+/// Marches the wake from the trailing edge (a laminar side entering it as it is; see
+/// [`march_wake_with`]). `input.s` is measured from the trailing edge (the
 /// first station is the trailing edge itself). The start merges the two sides' trailing-edge
 /// states: θ = θu + θl, δ* = δ*u + δ*l + `te_gap` (the base thickness, which the caller may pass
 /// as 0 and handle itself), CE the θ-weighted average of both sides (zero from a laminar side).
@@ -23,6 +37,49 @@ pub fn march_wake(
     te_gap: f64,
     settings: &MarchSettings,
 ) -> SideSolution {
+    march_wake_with(
+        input,
+        upper_te,
+        lower_te,
+        te_gap,
+        settings,
+        LaminarTrailingEdge::AsLaminar,
+    )
+}
+
+/// [`march_wake`] with the treatment of a side still laminar at the trailing edge.
+pub fn march_wake_with(
+    input: &SideInput,
+    upper_te: &Station,
+    lower_te: &Station,
+    te_gap: f64,
+    settings: &MarchSettings,
+    laminar_edge: LaminarTrailingEdge,
+) -> SideSolution {
+    let entering = |station: &Station| -> Station {
+        if laminar_edge == LaminarTrailingEdge::AsLaminar
+            || station.regime != Regime::Laminar
+            || !(station.theta > 0.0 && station.delta_star.is_finite())
+        {
+            return *station;
+        }
+        let start = turbulent_start(
+            &LayerState {
+                theta: station.theta,
+                shape_factor: station.delta_star / station.theta,
+                entrainment: 0.0,
+                edge_velocity: station.edge_velocity,
+            },
+            settings.reynolds,
+        );
+        Station {
+            delta_star: start.theta * start.shape_factor,
+            shape_factor: start.shape_factor,
+            shear_lag: start.entrainment,
+            ..*station
+        }
+    };
+    let (upper_te, lower_te) = (&entering(upper_te), &entering(lower_te));
     let mut solution = SideSolution {
         stations: Vec::new(),
         transition_s: None,

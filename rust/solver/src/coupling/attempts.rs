@@ -3,7 +3,10 @@
 //! and the first-order-wake fall-back where the full model converges nothing
 //! (docs/method.md, "Sweeps and warm starts" and "Wake curvature").
 
-use super::iteration::{solve_case, CoupledSolution, WarmStart, CAUTIOUS, PRIMARY, STIFF};
+use super::iteration::{
+    solve_case, CoupledSolution, WarmStart, CAUTIOUS, CAUTIOUS_TURBULENT_WAKE, PRIMARY,
+    PRIMARY_TURBULENT_WAKE, STIFF,
+};
 use super::model::{CaseModel, SectionModel, COARSE_START_ABOVE};
 use super::newton::{CoupledProblem, NewtonState};
 use super::settings::ViscousSettings;
@@ -164,6 +167,25 @@ fn solve_case_model(
             }
             if warm_defect.is_none() {
                 break;
+            }
+        }
+    }
+    // 4. Only where every attempt above failed (so no row that converges before changes): the
+    // starter and the full iteration with a laminar side entering the wake turbulent, from the
+    // inviscid flow and from the neighbour's mass defect.
+    if best.as_ref().is_none_or(|b| !b.converged) {
+        for (attempt_settings, strategy) in [
+            (&starter, PRIMARY_TURBULENT_WAKE),
+            (settings, PRIMARY_TURBULENT_WAKE),
+            (settings, CAUTIOUS_TURBULENT_WAKE),
+        ] {
+            for start in [None, warm_defect] {
+                if attempt(attempt_settings, start, strategy, &mut best) {
+                    return best;
+                }
+                if warm_defect.is_none() {
+                    break;
+                }
             }
         }
     }

@@ -18,7 +18,8 @@
 use crate::boundary_layer::laminar_closure::FalknerSkanClosure;
 use crate::boundary_layer::transition::OrrSommerfeldEnvelope;
 use crate::boundary_layer::{
-    march_surface, march_wake, MarchSettings, SideInput, SideSolution, Station,
+    march_surface, march_wake_with, LaminarTrailingEdge, MarchSettings, SideInput, SideSolution,
+    Station,
 };
 use crate::error::{Result, SolverError};
 
@@ -39,24 +40,44 @@ pub(crate) struct Strategy {
     pub max_coefficient_times_displacement: f64,
     /// Mixing factor of the Anderson update (1 would take the mixed map value undamped).
     pub mixing: f64,
+    /// How a side still laminar at the trailing edge enters the marched wake.
+    pub laminar_trailing_edge: LaminarTrailingEdge,
 }
 
 /// The first strategy tried.
 pub(crate) const PRIMARY: Strategy = Strategy {
     max_coefficient_times_displacement: 0.8,
     mixing: 0.3,
+    laminar_trailing_edge: LaminarTrailingEdge::AsLaminar,
 };
 /// A more cautious one for cases where the first stalls: a softer interaction law and
 /// stronger damping.
 pub(crate) const CAUTIOUS: Strategy = Strategy {
     max_coefficient_times_displacement: 0.5,
     mixing: 0.15,
+    laminar_trailing_edge: LaminarTrailingEdge::AsLaminar,
 };
 /// The last resort: an interaction coefficient closer to the full self-influence, which some
 /// trailing-edge states need to keep the saw-tooth mode of the iteration damped.
 pub(crate) const STIFF: Strategy = Strategy {
     max_coefficient_times_displacement: 1.5,
     mixing: 0.3,
+    laminar_trailing_edge: LaminarTrailingEdge::AsLaminar,
+};
+/// For a laminar layer that reaches the trailing edge with its N near the critical value (low
+/// Reynolds numbers): the primary and the cautious strategy with a laminar side entering the
+/// wake turbulent, as the Newton system's wake starts. Between passes that place transition
+/// in the last interval and passes that leave the layer laminar to the trailing edge, the
+/// wake's start then no longer jumps from an equilibrium entrainment to none (NACA 0012,
+/// Re 1e5, 0°: residual 1–3 over every pass before; docs/validation.md, "Low Reynolds numbers").
+pub(crate) const PRIMARY_TURBULENT_WAKE: Strategy = Strategy {
+    laminar_trailing_edge: LaminarTrailingEdge::TurbulentStart,
+    ..PRIMARY
+};
+/// See [`PRIMARY_TURBULENT_WAKE`].
+pub(crate) const CAUTIOUS_TURBULENT_WAKE: Strategy = Strategy {
+    laminar_trailing_edge: LaminarTrailingEdge::TurbulentStart,
+    ..CAUTIOUS
 };
 /// Floor on the speed used in that cap (near the stagnation point).
 const MIN_CAP_SPEED: f64 = 0.05;
@@ -269,12 +290,13 @@ pub(crate) fn solve_case(
             *e = trailing_edge_speed(upper_te, lower_te);
             *c = 0.0;
         }
-        let wake = march_wake(
+        let wake = march_wake_with(
             &wake_in.view(),
             upper_te,
             lower_te,
             0.0,
             &march_settings(settings, None),
+            strategy.laminar_trailing_edge,
         );
         finite &= store_defect(&mut m_new, &wake_side.nodes, &wake);
 

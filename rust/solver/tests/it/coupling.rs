@@ -452,3 +452,20 @@ fn an_upper_surface_trip_lies_on_the_upper_surface_at_high_angles_of_attack() {
         b[0].cd
     );
 }
+
+#[test]
+fn a_laminar_layer_reaching_the_trailing_edge_at_low_reynolds_number_converges() {
+    // Our design (docs/method.md, "Sweeps and warm starts", last attempts; docs/validation.md,
+    // "Low Reynolds numbers"): NACA 0012 at Re 1e5 and 0°: N reaches the critical value near
+    // the trailing edge, the starter's passes alternate between transition in the last
+    // interval and a layer laminar to the trailing edge, and until version 0.4.3 no attempt
+    // converged (residual of order 1 after every pass). The last attempts start a laminar
+    // side's wake turbulent, as the Newton system does. Common practice for the check: a
+    // converged row of an attached symmetric section at 0° has cl = 0 and no NaN.
+    let section = naca::from_designation("0012", false, 200).unwrap();
+    let rows = analyze_viscous(&section, &[0.0], &ViscousSettings::new(1e5)).unwrap();
+    let row = &rows[0];
+    assert!(row.converged, "{row:?}");
+    assert!(row.cl.abs() < 1e-6 && row.cd.is_finite() && row.cd > 0.0, "{row:?}");
+    assert!(row.transition_upper > 0.5, "{row:?}");
+}
