@@ -65,16 +65,11 @@ pub(crate) const STIFF: Strategy = Strategy {
     laminar_trailing_edge: LaminarTrailingEdge::AsLaminar,
 };
 /// For a laminar layer that reaches the trailing edge with its N near the critical value (low
-/// Reynolds numbers): the primary and the cautious strategy with a laminar side entering the
-/// wake turbulent, as the Newton system's wake starts. Between passes that place transition
-/// in the last interval and passes that leave the layer laminar to the trailing edge, the
-/// wake's start then no longer jumps from an equilibrium entrainment to none (NACA 0012,
-/// Re 1e5, 0°: residual 1–3 over every pass before; docs/validation.md, "Low Reynolds numbers").
-pub(crate) const PRIMARY_TURBULENT_WAKE: Strategy = Strategy {
-    laminar_trailing_edge: LaminarTrailingEdge::TurbulentStart,
-    ..PRIMARY
-};
-/// See [`PRIMARY_TURBULENT_WAKE`].
+/// Reynolds numbers): the cautious strategy with a laminar side entering the wake turbulent,
+/// as the Newton system's wake starts. Between passes that place transition in the last
+/// interval and passes that leave the layer laminar to the trailing edge, the wake's start then
+/// no longer jumps from an equilibrium entrainment to none (NACA 0012, Re 1e5, 0°: residual
+/// 1–3 over every pass before; docs/validation.md, "Low Reynolds numbers").
 pub(crate) const CAUTIOUS_TURBULENT_WAKE: Strategy = Strategy {
     laminar_trailing_edge: LaminarTrailingEdge::TurbulentStart,
     ..CAUTIOUS

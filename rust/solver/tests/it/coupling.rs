@@ -466,6 +466,9 @@ fn a_laminar_layer_reaching_the_trailing_edge_at_low_reynolds_number_converges()
     let rows = analyze_viscous(&section, &[0.0], &ViscousSettings::new(1e5)).unwrap();
     let row = &rows[0];
     assert!(row.converged, "{row:?}");
-    assert!(row.cl.abs() < 1e-6 && row.cd.is_finite() && row.cd > 0.0, "{row:?}");
+    assert!(
+        row.cl.abs() < 1e-6 && row.cd.is_finite() && row.cd > 0.0,
+        "{row:?}"
+    );
     assert!(row.transition_upper > 0.5, "{row:?}");
 }
