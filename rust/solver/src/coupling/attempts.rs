@@ -97,10 +97,12 @@ fn solve_case_model(
     // returns whether the case is done. A converged quasi-simultaneous solution the full
     // model does not converge from is itself first-order in the wake: the Newton iteration
     // with the first-order wake polishes it to the Newton tolerance where it can.
-    let attempt = |settings: &ViscousSettings,
-                   start: Option<&[f64]>,
-                   strategy,
-                   best: &mut Option<CoupledSolution>| {
+    // (The problems: the full model's, then the first-order wake's.)
+    let attempt_with = |(problem, first_order): (&CoupledProblem, &CoupledProblem),
+                        settings: &ViscousSettings,
+                        start: Option<&[f64]>,
+                        strategy,
+                        best: &mut Option<CoupledSolution>| {
         let Ok(first) = solve_case(case, settings, start, strategy) else {
             return false;
         };
@@ -115,13 +117,19 @@ fn solve_case_model(
         }
         if problem.models_wake_curvature() {
             if let Ok(solution) = first_order.solve(&first_state) {
-                if keep(with_full_model(&problem, solution), best) {
+                if keep(with_full_model(problem, solution), best) {
                     return true;
                 }
             }
         }
         keep(first, best);
         true
+    };
+    let attempt = |settings: &ViscousSettings,
+                   start: Option<&[f64]>,
+                   strategy,
+                   best: &mut Option<CoupledSolution>| {
+        attempt_with((&problem, &first_order), settings, start, strategy, best)
     };
     // 0. On a fine panelling, from the coarse model's solution at this angle.
     if let Some(start) = coarse_start {
@@ -169,17 +177,25 @@ fn solve_case_model(
             }
         }
     }
-    // 4. Only where every attempt above failed (so no row that converges before changes): the
-    // cautious strategy with a laminar side entering the wake turbulent, from the inviscid flow
-    // and from the neighbour's mass defect. (The starter and the primary strategy with it
-    // rescued none of the low-Reynolds-number points that this one did: docs/validation.md.)
+    // 4. Only where every attempt above failed (so no row that converges before changes), with
+    // a transition point past its interval's end held there once its move downstream is
+    // refused: the stiff strategy, then the cautious one with a laminar side entering the wake
+    // turbulent, each from the inviscid flow and from the neighbour's mass defect. (The
+    // starter, the primary and the cautious strategy rescued none of the low-Reynolds-number
+    // points these did: docs/validation.md, "Low Reynolds numbers".)
     if best.as_ref().is_none_or(|b| !b.converged) {
-        for start in [None, warm_defect] {
-            if attempt(settings, start, CAUTIOUS_TURBULENT_WAKE, &mut best) {
-                return best;
-            }
-            if warm_defect.is_none() {
-                break;
+        let holding = CoupledProblem::new(case, settings).holding_points_past_refused_moves();
+        let holding_first_order =
+            CoupledProblem::new(case, &first_order_settings).holding_points_past_refused_moves();
+        for strategy in [STIFF, CAUTIOUS_TURBULENT_WAKE] {
+            for start in [None, warm_defect] {
+                let problems = (&holding, &holding_first_order);
+                if attempt_with(problems, settings, start, strategy, &mut best) {
+                    return best;
+                }
+                if warm_defect.is_none() {
+                    break;
+                }
             }
         }
     }

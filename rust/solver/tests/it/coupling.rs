@@ -472,3 +472,17 @@ fn a_laminar_layer_reaching_the_trailing_edge_at_low_reynolds_number_converges()
     );
     assert!(row.transition_upper > 0.5, "{row:?}");
 }
+
+#[test]
+fn a_transition_point_past_a_refused_move_is_held_in_the_last_attempts() {
+    // Our design (docs/method.md, "Sweeps and warm starts", last attempts): NACA 0012 at Re 7e4
+    // and 0°: the point creeps to the trailing edge, is pulled back by the critical N, and then
+    // lies 1.5–2 intervals past its interval's end with the move downstream refused (made
+    // before in the solve); until version 0.4.3 no attempt converged. The last attempts hold it
+    // at that end. Common practice for the check: cl = 0 at 0° for a symmetric section.
+    let section = naca::from_designation("0012", false, 200).unwrap();
+    let rows = analyze_viscous(&section, &[0.0], &ViscousSettings::new(7e4)).unwrap();
+    let row = &rows[0];
+    assert!(row.converged, "{row:?}");
+    assert!(row.cl.abs() < 1e-6 && row.cd.is_finite() && row.cd > 0.0, "{row:?}");
+}

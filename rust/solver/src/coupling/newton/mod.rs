@@ -148,6 +148,10 @@ pub(crate) struct CoupledProblem<'a> {
     /// Node speeds of the wake-curvature sheet at the latest iterate (coupling convention),
     /// added to the inviscid speeds of every layout (`curvature`).
     speed_offset: std::cell::RefCell<Vec<f64>>,
+    /// Whether a transition point that lies past its interval's end with its move downstream
+    /// refused is held at that end without waiting for convergence
+    /// ([`Self::holding_points_past_refused_moves`]).
+    hold_past_refused_moves: bool,
 }
 
 impl<'a> CoupledProblem<'a> {
@@ -163,7 +167,20 @@ impl<'a> CoupledProblem<'a> {
             },
             wake_origin: case.wake_s.first().copied().unwrap_or(0.0),
             speed_offset: std::cell::RefCell::new(vec![0.0; case.n_total()]),
+            hold_past_refused_moves: false,
         }
+    }
+
+    /// The same problem, but a transition point that has lain past its interval's end for
+    /// BOUND_ITERATIONS iterations with its move downstream refused (made before in the solve)
+    /// is held at that end at once, as one at the lower bound is (`update_regimes`). For the
+    /// last attempts only (`attempts`): there the point can go nowhere and the iterate does not
+    /// converge (NACA 0012, Re 7e4, 0°: f between 1.5 and 2 for a dozen iterations); in the
+    /// first attempts it put NACA 0012 at Re 2e5 and ±6° on a second solution (cl 0.646 against
+    /// 0.692), so it is not used where those converge.
+    pub(crate) fn holding_points_past_refused_moves(mut self) -> Self {
+        self.hold_past_refused_moves = true;
+        self
     }
 
     /// Whether this problem carries the wake-curvature sheet (the setting, and a case built

@@ -34,6 +34,11 @@ const UNSETTLED_N_MARGIN: f64 = 1.0;
 /// steps after a move mostly comes back; one that stays there stalls the iteration).
 const BOUND_ITERATIONS: usize = 3;
 
+/// How far past its interval's end (in intervals) a point with its move downstream refused
+/// counts as lying there, for the hold of `CoupledProblem::holding_points_past_refused_moves`
+/// (our choice).
+const PAST_END_SLACK: f64 = 0.25;
+
 /// What the iteration remembers of each side's transition between calls of `update_regimes`.
 #[derive(Debug, Clone, Default)]
 pub(super) struct TransitionHistory {
@@ -43,6 +48,9 @@ pub(super) struct TransitionHistory {
     pub made: [Vec<(usize, usize)>; 2],
     /// Consecutive iterations each side's point has lain at the lower bound of its fraction.
     pub at_bound: [usize; 2],
+    /// Consecutive iterations each side's point has lain past its interval's end (by more than
+    /// PAST_END_SLACK) with its move downstream refused.
+    pub past_end: [usize; 2],
 }
 
 impl TransitionHistory {
@@ -283,7 +291,16 @@ impl CoupledProblem<'_> {
             } else {
                 0
             };
-            let stuck = history.at_bound[side] >= BOUND_ITERATIONS;
+            // (In the last attempts, likewise past the end with the move downstream refused:
+            // `CoupledProblem::holding_points_past_refused_moves`.)
+            let past_end = f > 1.0 + PAST_END_SLACK && t + 1 < range.end && down_blocked;
+            history.past_end[side] = if past_end {
+                history.past_end[side] + 1
+            } else {
+                0
+            };
+            let stuck = history.at_bound[side] >= BOUND_ITERATIONS
+                || (self.hold_past_refused_moves && history.past_end[side] >= BOUND_ITERATIONS);
             if (converged_here || stuck) && !pinned_here {
                 let blocked_up = f < 0.0 && t - 1 > range.start && up_blocked;
                 // (Past the end of the last interval: there the point at f = 1 gives the wake
