@@ -453,6 +453,20 @@ fn an_upper_surface_trip_lies_on_the_upper_surface_at_high_angles_of_attack() {
     );
 }
 
+/// NACA 0012 at 0° and Reynolds number `reynolds`, checked to converge with cl = 0 (common
+/// practice for a symmetric section) and a finite positive drag; returns the row.
+fn symmetric_section_at_zero_lift(reynolds: f64) -> wakerank_solver::coupling::ViscousRow {
+    let section = naca::from_designation("0012", false, 200).unwrap();
+    let rows = analyze_viscous(&section, &[0.0], &ViscousSettings::new(reynolds)).unwrap();
+    let row = rows.into_iter().next().unwrap();
+    assert!(row.converged, "{row:?}");
+    assert!(
+        row.cl.abs() < 1e-6 && row.cd.is_finite() && row.cd > 0.0,
+        "{row:?}"
+    );
+    row
+}
+
 #[test]
 fn a_laminar_layer_reaching_the_trailing_edge_at_low_reynolds_number_converges() {
     // Our design (docs/method.md, "Sweeps and warm starts", last attempts; docs/validation.md,
@@ -460,16 +474,8 @@ fn a_laminar_layer_reaching_the_trailing_edge_at_low_reynolds_number_converges()
     // the trailing edge, the starter's passes alternate between transition in the last
     // interval and a layer laminar to the trailing edge, and until version 0.4.3 no attempt
     // converged (residual of order 1 after every pass). The last attempts start a laminar
-    // side's wake turbulent, as the Newton system does. Common practice for the check: a
-    // converged row of an attached symmetric section at 0° has cl = 0 and no NaN.
-    let section = naca::from_designation("0012", false, 200).unwrap();
-    let rows = analyze_viscous(&section, &[0.0], &ViscousSettings::new(1e5)).unwrap();
-    let row = &rows[0];
-    assert!(row.converged, "{row:?}");
-    assert!(
-        row.cl.abs() < 1e-6 && row.cd.is_finite() && row.cd > 0.0,
-        "{row:?}"
-    );
+    // side's wake turbulent, as the Newton system does.
+    let row = symmetric_section_at_zero_lift(1e5);
     assert!(row.transition_upper > 0.5, "{row:?}");
 }
 
@@ -479,10 +485,6 @@ fn a_transition_point_past_a_refused_move_is_held_in_the_last_attempts() {
     // and 0°: the point creeps to the trailing edge, is pulled back by the critical N, and then
     // lies 1.5–2 intervals past its interval's end with the move downstream refused (made
     // before in the solve); until version 0.4.3 no attempt converged. The last attempts hold it
-    // at that end. Common practice for the check: cl = 0 at 0° for a symmetric section.
-    let section = naca::from_designation("0012", false, 200).unwrap();
-    let rows = analyze_viscous(&section, &[0.0], &ViscousSettings::new(7e4)).unwrap();
-    let row = &rows[0];
-    assert!(row.converged, "{row:?}");
-    assert!(row.cl.abs() < 1e-6 && row.cd.is_finite() && row.cd > 0.0, "{row:?}");
+    // at that end.
+    symmetric_section_at_zero_lift(7e4);
 }
