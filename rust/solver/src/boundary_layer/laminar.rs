@@ -19,13 +19,18 @@ pub(crate) const STAGNATION_SHAPE_FACTOR: f64 = 2.2162;
 /// the reversed-flow branch of the closure extends beyond 10).
 pub(crate) const LAMINAR_SHAPE_FACTOR_RANGE: (f64, f64) = (1.9, 16.0);
 
+/// Reθ of a state, kept positive (the closures are divided by it).
+fn momentum_thickness_reynolds(state: &LayerState, reynolds: f64) -> f64 {
+    (reynolds * state.edge_velocity * state.theta).max(1e-12)
+}
+
 /// Local skin friction and dissipation coefficients, Cf and CD, of a laminar state.
 pub(crate) fn laminar_coefficients(
     state: &LayerState,
     reynolds: f64,
     closure: &dyn LaminarClosure,
 ) -> (f64, f64) {
-    let re_theta = (reynolds * state.edge_velocity * state.theta).max(1e-12);
+    let re_theta = momentum_thickness_reynolds(state, reynolds);
     let h = state.shape_factor;
     (
         closure.skin_friction_re_theta(h) / re_theta,
@@ -52,8 +57,7 @@ impl LaminarTerms {
     pub(crate) fn new(state: &LayerState, reynolds: f64, closure: &dyn LaminarClosure) -> Self {
         let h = state.shape_factor;
         let [h_star, cf_re_theta, cd_re_theta] = closure.values(h);
-        // (As in `laminar_coefficients`.)
-        let re_theta = (reynolds * state.edge_velocity * state.theta).max(1e-12);
+        let re_theta = momentum_thickness_reynolds(state, reynolds);
         let (cf, cd) = (cf_re_theta / re_theta, cd_re_theta / re_theta);
         let theta = state.theta;
         Self {
