@@ -3,7 +3,9 @@
 //! Environment: `WR_PANELS` (default 160), `WR_MACH` (default 0), `WR_CLOSED_TE=1` for the
 //! closed-trailing-edge NACA variant,
 //! `WR_NO_CURVATURE=1` to leave the wake-curvature sheet out, `WR_WAKE_NODES` for the number
-//! of wake nodes (default a quarter of the panel count, at least 24).
+//! of wake nodes (default a quarter of the panel count, at least 24), `WR_STATIONS=1` to print,
+//! for each angle, the `boundary_layer_stations` row and its stations near the leading and
+//! trailing edges instead of the sweep.
 
 use std::time::Instant;
 use wakerank_solver::coupling::{analyze_viscous, ViscousSettings};
@@ -49,6 +51,37 @@ fn main() {
             .map(|v| v.parse().unwrap()),
         ..ViscousSettings::new(re)
     };
+    if std::env::var("WR_STATIONS").is_ok() {
+        for &a in &alphas {
+            let Ok(analysis) =
+                wakerank_solver::coupling::boundary_layer_stations(&section, a, &settings)
+            else {
+                println!("alpha {a}: no solution");
+                continue;
+            };
+            let r = &analysis.row;
+            println!(
+                "alpha {a:6.2} cl {:8.5} cd {:9.6} cm_c4 {:8.5} converged {}",
+                r.cl, r.cd, r.cm_c4, r.converged
+            );
+            for st in &analysis.stations {
+                if st.x > 0.97 || st.x < 0.002 {
+                    println!(
+                        "  {:?} x {:.4} ue {:.4} theta {:.3e} H {:.3} cf {:.2e} N {:.2} {:?}",
+                        st.side,
+                        st.x,
+                        st.edge_velocity,
+                        st.theta,
+                        st.shape_factor,
+                        st.cf,
+                        st.amplification,
+                        st.regime
+                    );
+                }
+            }
+        }
+        return;
+    }
     let t = Instant::now();
     let rows = analyze_viscous(&section, &alphas, &settings).unwrap();
     let dt = t.elapsed().as_secs_f64();

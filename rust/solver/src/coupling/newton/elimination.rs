@@ -273,10 +273,25 @@ impl Factorisation {
         }
         let mut local = vec![[0.0; MAX_LOCAL]; k_total];
         for (k, lin) in self.stations.iter().enumerate() {
+            // The station's gain rows are contiguous: their products with δm are summed side
+            // by side, each in column order (independent running sums hide the latency of
+            // the additions; the order, and so the result, is that of one sum per row).
+            let start = self.gain_row(k, 0);
+            let rows = &self.gain[start..start + lin.n_local * k_total];
+            let mut sums = [-0.0f64; MAX_LOCAL];
+            if lin.n_local == 2 {
+                let (g0, g1) = rows.split_at(k_total);
+                for (j, &dm) in mass.iter().enumerate() {
+                    sums[0] += g0[j] * dm;
+                    sums[1] += g1[j] * dm;
+                }
+            } else {
+                for (c, g) in rows.chunks_exact(k_total).enumerate() {
+                    sums[c] = g.iter().zip(&mass).map(|(a, b)| a * b).sum::<f64>();
+                }
+            }
             for c in 0..lin.n_local {
-                let start = self.gain_row(k, c);
-                let g = &self.gain[start..start + k_total];
-                let z = offset[k][c] + g.iter().zip(&mass).map(|(a, b)| a * b).sum::<f64>();
+                let z = offset[k][c] + sums[c];
                 if !z.is_finite() {
                     return None;
                 }
