@@ -147,3 +147,19 @@ def test_symmetric_section_converges_at_low_reynolds_numbers(reynolds):
     zero = polar.filter(pl.col("alpha_deg") == 0.0)
     assert abs(zero["cl"][0]) < 1e-6
     assert zero["cd"][0] > 2 * 1.328 / np.sqrt(reynolds)
+
+
+@pytest.mark.parametrize("code", ["4412", "4415"])
+def test_cambered_sections_converge_at_re_7e4(code):
+    # Our measurement (docs/validation.md, "Low Reynolds numbers"): NACA 4412 and 4415 at
+    # Re 7e4, α −2°..8°: 2 and 0 of six points converged until version 0.4.3, all six with
+    # the continuation in the Reynolds number (docs/method.md). Common practice for the checks:
+    # no NaN in a converged row, the lift rising with the angle below stall, and a drag above
+    # the laminar flat plate's (Blasius, both sides: 2 × 1.328/√Re).
+    reynolds = 7e4
+    polar = wr.analyze(wr.Section.naca(code), alpha_deg=[-2.0, 0.0, 2.0, 4.0, 6.0, 8.0],
+                       reynolds=reynolds)
+    assert polar["converged"].all(), polar
+    _assert_converged_rows_finite(polar)
+    assert np.all(np.diff(polar["cl"].to_numpy()) > 0.0), polar
+    assert polar["cd"].min() > 2 * 1.328 / np.sqrt(reynolds)

@@ -488,3 +488,22 @@ fn a_transition_point_past_a_refused_move_is_held_in_the_last_attempts() {
     // at that end.
     symmetric_section_at_zero_lift(7e4);
 }
+
+#[test]
+fn a_cambered_section_at_low_reynolds_number_is_reached_by_continuation_in_reynolds_number() {
+    // Our design (docs/method.md, "Sweeps and warm starts", continuation in the Reynolds
+    // number): NACA 4412 at Re 7e4 and 4°, where the quasi-simultaneous starter from the
+    // inviscid flow diverges and until version 0.4.3 no attempt converged. The continuation
+    // from Re 2e5 reaches it. Check (common practice): the drag rises as the Reynolds number
+    // falls (thicker layers, a longer laminar separation), the lift changes little.
+    let section = naca::from_designation("4412", false, 200).unwrap();
+    let row_at = |reynolds: f64| {
+        let rows = analyze_viscous(&section, &[4.0], &ViscousSettings::new(reynolds)).unwrap();
+        let row = rows.into_iter().next().unwrap();
+        assert!(row.converged && row.is_finite(), "Re {reynolds}: {row:?}");
+        row
+    };
+    let (low, higher) = (row_at(7e4), row_at(1e5));
+    assert!(low.cd > higher.cd && low.cd < 2.0 * higher.cd, "{low:?} {higher:?}");
+    assert!((low.cl - higher.cl).abs() < 0.1 * higher.cl, "{low:?} {higher:?}");
+}
