@@ -235,7 +235,8 @@ const CONTINUATION_SOLVES: usize = 16;
 /// reattaches). Depends on nothing but the case and the settings; None when the chain breaks.
 fn reynolds_continuation(case: &CaseModel, settings: &ViscousSettings) -> Option<CoupledSolution> {
     let target = settings.reynolds;
-    if !(target < CONTINUATION_START_REYNOLDS) {
+    // (Validated settings hold a finite Reynolds number.)
+    if target >= CONTINUATION_START_REYNOLDS {
         return None;
     }
     let at = |reynolds: f64| ViscousSettings {
