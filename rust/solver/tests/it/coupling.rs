@@ -504,6 +504,12 @@ fn a_cambered_section_at_low_reynolds_number_is_reached_by_continuation_in_reyno
         row
     };
     let (low, higher) = (row_at(7e4), row_at(1e5));
-    assert!(low.cd > higher.cd && low.cd < 2.0 * higher.cd, "{low:?} {higher:?}");
-    assert!((low.cl - higher.cl).abs() < 0.1 * higher.cl, "{low:?} {higher:?}");
+    assert!(
+        low.cd > higher.cd && low.cd < 2.0 * higher.cd,
+        "{low:?} {higher:?}"
+    );
+    assert!(
+        (low.cl - higher.cl).abs() < 0.1 * higher.cl,
+        "{low:?} {higher:?}"
+    );
 }
