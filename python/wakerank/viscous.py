@@ -188,10 +188,13 @@ def solve_for_cl(
     panels: int | None = 160,
 ) -> pl.DataFrame:
     """The viscous polar row (the columns of :func:`wakerank.analyze`) at the angle that gives
-    lift coefficient `cl`.
+    lift coefficient `cl` (within 1e-4; where the computed lift jumps across the target by at
+    most 0.002, as free transition moving by one station makes it, the row on the nearer side
+    of the jump, within 0.001).
 
     Raises :class:`wakerank.ConvergenceError` when the target lies beyond the section's
-    maximum (or minimum) lift at these conditions.
+    maximum (or minimum) lift at these conditions, or in a larger jump of the lift (the
+    message names the angles and lifts on both sides).
     """
     target = _number("cl", cl)
     name, x, y, cond = _section_and_conditions(

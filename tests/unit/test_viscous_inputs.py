@@ -88,15 +88,27 @@ def test_solve_for_cl_beyond_maximum_lift_is_an_error(naca0012):
 def test_solve_for_cl_is_not_stopped_by_a_change_of_solution_branch():
     # Our design (target_cl.rs): a lift that falls over a short step of α is free transition
     # changing place, not maximum lift. NACA 2412, Re 1e6, 240 panels: cl 0.6992 at 4.144° and
-    # 0.6873 at 4.150°; version 0.4.1 stopped there ("maximum lift"). Now cl 0.9 is reached and
-    # cl 0.7, where the computed lift jumps from 0.688 to 0.700 within 0.001°, is an error that
-    # says so and names both sides.
+    # 0.6873 at 4.150° in version 0.4.1, which stopped there ("maximum lift"); both targets are
+    # reached (cl 0.7 since version 0.4.4, whose nested start from 160 panels removed that
+    # jump at 240 panels).
     section = wr.Section.naca("2412")
-    row = wr.solve_for_cl(section, cl=0.9, reynolds=1e6, panels=240)
-    assert row["converged"][0] and math.isclose(row["cl"][0], 0.9, abs_tol=1e-3)
+    for target in (0.9, 0.7):
+        row = wr.solve_for_cl(section, cl=target, reynolds=1e6, panels=240)
+        assert row["converged"][0] and math.isclose(row["cl"][0], target, abs_tol=1e-3)
+
+
+def test_solve_for_cl_reports_a_jump_of_the_lift_across_the_target():
+    # Our design (target_cl.rs): NACA 0012, Re 5.97e6, M 0.15, free transition: the lift
+    # jumps from 1.388 to 1.413 within 0.001° near 12.8° (two branches of the discrete
+    # solution, docs/validation.md), so cl 1.39 is an error that says so and names both sides;
+    # a jump of at most 0.002 across the target (1.3849 to 1.3852 for cl 1.385: transition
+    # moving one station) gives the row on its nearer side.
+    section = wr.Section.naca("0012")
     with pytest.raises(wr.ConvergenceError, match="jumps across") as failure:
-        wr.solve_for_cl(section, cl=0.7, reynolds=1e6, panels=240)
+        wr.solve_for_cl(section, cl=1.39, reynolds=5.97e6, mach=0.15)
     assert "maximum lift" not in str(failure.value)
+    row = wr.solve_for_cl(section, cl=1.385, reynolds=5.97e6, mach=0.15)
+    assert row["converged"][0] and math.isclose(row["cl"][0], 1.385, abs_tol=1e-3)
 
 
 def test_cli_analyze_with_reynolds():

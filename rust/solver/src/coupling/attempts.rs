@@ -8,6 +8,7 @@ use super::iteration::{
 };
 use super::model::{CaseModel, SectionModel, COARSE_START_ABOVE};
 use super::newton::{CoupledProblem, NewtonState};
+use super::reynolds_continuation::{continuation_wanted, reynolds_continuation};
 use super::settings::ViscousSettings;
 
 /// Outer passes of the quasi-simultaneous iteration that give the coupled Newton iteration its
@@ -28,8 +29,8 @@ fn starter_settings(settings: &ViscousSettings) -> ViscousSettings {
 /// neighbour); then from the quasi-simultaneous starter warm-started with the neighbour's mass
 /// defect; last, the quasi-simultaneous iteration on its own with its strategies (cautious,
 /// stiff), each finished by the Newton iteration; where all of those fail, the last attempts
-/// (a held transition point, a turbulent wake start) and, below 2e5, continuation in the
-/// Reynolds number ([`reynolds_continuation`]). The first attempt that converges is kept,
+/// (a held transition point, a turbulent wake start) and, below Re 2e5 or above 1e7,
+/// continuation in the Reynolds number ([`reynolds_continuation`]). The first attempt that converges is kept,
 /// otherwise the last one. Above [`COARSE_START_ABOVE`] panels the Newton iteration from the
 /// coarse model's solution comes first ([`coarse_start`]), and the warm-started starter before
 /// the neighbour's full iterate.
@@ -80,7 +81,28 @@ fn coarse_start(
     Some(state.on_case(&case, fine))
 }
 
-fn solve_case_model(
+pub(super) fn solve_case_model(
+    case: &CaseModel,
+    settings: &ViscousSettings,
+    warm_start: Option<&WarmStart>,
+    coarse_start: Option<&NewtonState>,
+) -> Option<CoupledSolution> {
+    let mut best = first_attempts(case, settings, warm_start, coarse_start);
+    // 5. Last of all, below Re 2e5 where nothing converged, and above 1e7 where nothing or
+    // only the first-order wake did: continuation in the Reynolds number.
+    if continuation_wanted(best.as_ref(), settings) {
+        if let Some(solution) = reynolds_continuation(case, settings) {
+            if solution.wake_curvature || best.as_ref().is_none_or(|b| !b.converged) {
+                best = Some(solution);
+            }
+        }
+    }
+    best
+}
+
+/// Steps 0–4 of [`solve_case_model`]: the first converged attempt (possibly with the
+/// first-order wake), else the last one.
+fn first_attempts(
     case: &CaseModel,
     settings: &ViscousSettings,
     warm_start: Option<&WarmStart>,
@@ -208,80 +230,7 @@ fn solve_case_model(
             }
         }
     }
-    // 5. Last of all, below CONTINUATION_START_REYNOLDS: the same case solved at higher
-    // Reynolds numbers first, each solution the start of the next (`reynolds_continuation`).
-    if best.as_ref().is_none_or(|b| !b.converged) {
-        if let Some(solution) = reynolds_continuation(case, settings) {
-            keep(solution, &mut best);
-        }
-    }
     best
-}
-
-/// Reynolds number from which [`reynolds_continuation`] starts (our choice: from there up, the
-/// low-Reynolds-number set of docs/validation.md converges from the inviscid flow).
-const CONTINUATION_START_REYNOLDS: f64 = 2e5;
-/// Largest ratio of successive Reynolds numbers in [`reynolds_continuation`] (our choice).
-const CONTINUATION_RATIO: f64 = 1.5;
-/// Successive halvings of a continuation step (in ln Re) tried after a failed one.
-const CONTINUATION_HALVINGS: usize = 3;
-/// Most Newton solves of one continuation (a bound on its cost).
-const CONTINUATION_SOLVES: usize = 16;
-
-/// A case at a Reynolds number below [`CONTINUATION_START_REYNOLDS`] solved by continuation in
-/// the Reynolds number (natural-parameter continuation, as in Allgower & Georg, *Numerical
-/// Continuation Methods*, 1990, ch. 1): the same case (the wake, the influence matrix and the
-/// inviscid speeds do not depend on Re) first solved at that Reynolds number by the attempts of
-/// `solve_case_model` from the inviscid flow,
-/// then down to the target in steps of at most [`CONTINUATION_RATIO`], each Newton iteration
-/// started from the solution of the step before; a failed step is halved (in ln Re) up to
-/// [`CONTINUATION_HALVINGS`] times in a row, and at most [`CONTINUATION_SOLVES`] steps are
-/// made. At low Reynolds numbers the laminar separation grows long and the quasi-simultaneous
-/// starter from the inviscid flow diverges (docs/validation.md, "Low Reynolds numbers"), while
-/// the solution changes smoothly with Re down to where a branch ends (a bubble that no longer
-/// reattaches). Depends on nothing but the case and the settings; None when the chain breaks.
-fn reynolds_continuation(case: &CaseModel, settings: &ViscousSettings) -> Option<CoupledSolution> {
-    let target = settings.reynolds;
-    // (Validated settings hold a finite Reynolds number.)
-    if target >= CONTINUATION_START_REYNOLDS {
-        return None;
-    }
-    let at = |reynolds: f64| ViscousSettings {
-        reynolds,
-        ..settings.clone()
-    };
-    let start = at(CONTINUATION_START_REYNOLDS);
-    let mut solution = solve_case_model(case, &start, None, None).filter(|s| s.converged)?;
-    // Position along ln Re from the start (0) to the target (1).
-    let (ln_start, ln_target) = (CONTINUATION_START_REYNOLDS.ln(), target.ln());
-    let full_step = 1.0 / ((ln_start - ln_target) / CONTINUATION_RATIO.ln()).ceil();
-    let (mut position, mut step, mut halvings) = (0.0f64, full_step, 0);
-    for _ in 0..CONTINUATION_SOLVES {
-        if position >= 1.0 {
-            return Some(solution);
-        }
-        let next = (position + step).min(1.0);
-        let rung = if next >= 1.0 {
-            settings.clone()
-        } else {
-            at((ln_start + next * (ln_target - ln_start)).exp())
-        };
-        let from = solution.newton_state.as_ref()?;
-        match CoupledProblem::new(case, &rung).solve(from) {
-            Ok(s) if s.converged => {
-                solution = s;
-                position = next;
-                step = (2.0 * step).min(full_step);
-                halvings = 0;
-            }
-            _ if halvings < CONTINUATION_HALVINGS => {
-                halvings += 1;
-                step *= 0.5;
-            }
-            _ => return None,
-        }
-    }
-    (position >= 1.0).then_some(solution)
 }
 
 /// The solution with the first-order wake (no wake-curvature sheet), for an angle at which the

@@ -18,6 +18,7 @@ mod forces;
 mod iteration;
 mod model;
 mod newton;
+mod reynolds_continuation;
 mod settings;
 mod stagnation;
 mod sweep;

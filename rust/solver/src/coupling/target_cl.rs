@@ -19,6 +19,11 @@ const MIN_SLOPE_STEP_DEG: f64 = 0.25;
 /// Bracket width below which a target not yet met is taken to lie in a jump of the lift,
 /// degrees.
 const MIN_BRACKET_DEG: f64 = 1e-3;
+/// Largest jump of the lift across the target for which the row on the nearer side is
+/// returned instead of an error (our choice: free transition moving by one station makes the
+/// lift jump by a few 1e-4 near the leading edge; a screening row within 1e-3 of the target
+/// lift serves).
+const SMALL_JUMP_CL: f64 = 2e-3;
 
 /// Solve for the angle of attack giving `target_cl` and return that polar row.
 ///
@@ -30,7 +35,8 @@ const MIN_BRACKET_DEG: f64 = 1e-3;
 /// stops growing before the target is reached the target lies beyond the section's maximum
 /// (or minimum) lift, and a `SolverError::Convergence` says so, giving the extreme lift found;
 /// when the bracket shrinks below [`MIN_BRACKET_DEG`] without reaching the target, the lift
-/// jumps across it, and the error gives the two sides of the jump.
+/// jumps across it: a jump of at most [`SMALL_JUMP_CL`] gives the row on its nearer side, a
+/// larger one an error that gives the two sides of the jump.
 pub fn solve_for_cl(
     section: &Section,
     target_cl: f64,
@@ -49,9 +55,10 @@ pub fn solve_for_cl(
     let mut previous: Option<(f64, f64)> = None;
     let direction = target_cl.signum();
     let mut extreme = f64::NAN;
-    // The converged (α, cl) nearest the target short of it and past it, once found.
-    let mut short: Option<(f64, f64)> = None;
-    let mut past: Option<(f64, f64)> = None;
+    // The converged (α, cl) nearest the target short of it and past it, once found, with
+    // its row.
+    let mut short: Option<(f64, f64, ViscousRow)> = None;
+    let mut past: Option<(f64, f64, ViscousRow)> = None;
     for _ in 0..40 {
         let solved = solve_with_continuation_or_first_order(&model, alpha, settings, warm.as_ref());
         let Some((case, sol)) = solved else { break };
@@ -79,8 +86,12 @@ pub fn solve_for_cl(
         } else {
             &mut past
         };
-        if was_bracketed || side.is_none_or(|(_, cl)| (cl - target_cl).abs() > error.abs()) {
-            *side = Some((alpha, row.cl));
+        if was_bracketed
+            || side
+                .as_ref()
+                .is_none_or(|(_, cl, _)| (cl - target_cl).abs() > error.abs())
+        {
+            *side = Some((alpha, row.cl, row.clone()));
         }
         // (A lift that falls over a short step is the solution changing branch — free
         // transition has several self-consistent places — not maximum lift: the step after it
@@ -102,8 +113,16 @@ pub fn solve_for_cl(
             -error / slope_guess
         };
         let secant = alpha + step.clamp(-MAX_STEP_DEG, MAX_STEP_DEG);
-        if let (Some(s), Some(p)) = (short, past) {
+        if let (Some(s), Some(p)) = (&short, &past) {
             let (lo, hi) = (s.0.min(p.0), s.0.max(p.0));
+            if hi - lo < MIN_BRACKET_DEG && (p.1 - s.1).abs() <= SMALL_JUMP_CL {
+                let nearer = if (s.1 - target_cl).abs() <= (p.1 - target_cl).abs() {
+                    s
+                } else {
+                    p
+                };
+                return Ok(nearer.2.clone());
+            }
             if hi - lo < MIN_BRACKET_DEG {
                 return Err(SolverError::Convergence(format!(
                     "cl = {target_cl} was not reached at reynolds = {:e}: the lift jumps across \
