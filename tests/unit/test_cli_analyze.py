@@ -74,3 +74,19 @@ def test_viscous_view_marks_first_order_wake_rows() -> None:
     view = viscous_view(table)
     assert view.columns == VISCOUS_SHOWN
     assert view["converged"].to_list() == ["yes", FIRST_ORDER_MARK, "no"]
+
+
+def test_viscous_view_blanks_the_values_of_rows_that_did_not_converge() -> None:
+    # A failed solution's last iterate (cl -28 at NACA 0006, Re 1e6, 10°) is not printed beside
+    # converged rows; the angle and the flag stay, --out keeps the full row.
+    from wakerank.cli.analyze import VISCOUS_SHOWN, viscous_view
+
+    table = pl.DataFrame(
+        {name: [1.5, -28.0] for name in VISCOUS_SHOWN if name != "converged"}
+        | {"converged": [True, False], "wake_curvature": [True, False]}
+    )
+    view = viscous_view(table)
+    failed = view.row(1, named=True)
+    assert failed["alpha_deg"] == -28.0 and failed["converged"] == "no"
+    assert all(failed[name] is None for name in VISCOUS_SHOWN if name not in ("alpha_deg", "converged"))
+    assert view.row(0, named=True)["cl"] == 1.5

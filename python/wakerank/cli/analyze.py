@@ -73,9 +73,18 @@ FIRST_ORDER_NOTE = (
 )
 
 
+#: How the screen table explains the blank values of a row that did not converge.
+NOT_CONVERGED_NOTE = (
+    "no: not converged, values not shown (the last iterate's are in --out, with its "
+    "iterations and residual)"
+)
+
+
 def viscous_view(table: pl.DataFrame) -> pl.DataFrame:
     """The on-screen columns of a viscous polar, `converged` as yes / yes* / no (yes*: the
-    row comes from the first-order wake, see :data:`FIRST_ORDER_NOTE`)."""
+    row comes from the first-order wake, see :data:`FIRST_ORDER_NOTE`). A row that did not
+    converge shows its angle only: the last iterate of a failed solution can be far from any
+    flow (lift coefficients of ±50 occur), so it is not printed beside converged rows."""
     flag = (
         pl.when(~pl.col("converged"))
         .then(pl.lit("no"))
@@ -84,7 +93,12 @@ def viscous_view(table: pl.DataFrame) -> pl.DataFrame:
         .otherwise(pl.lit(FIRST_ORDER_MARK))
         .alias("converged")
     )
-    return table.with_columns(flag).select(VISCOUS_SHOWN)
+    values = [name for name in VISCOUS_SHOWN if name not in ("alpha_deg", "converged")]
+    blank = [
+        pl.when(pl.col("converged")).then(pl.col(name)).otherwise(None).alias(name)
+        for name in values
+    ]
+    return table.with_columns(blank).with_columns(flag).select(VISCOUS_SHOWN)
 
 
 def check_output(out: Optional[Path]) -> None:
@@ -132,6 +146,8 @@ def run_analyze(spec: str, alpha: str, options: AnalyzeOptions, out: Optional[Pa
     print_table(shown, f"{getattr(section, 'name', spec)} ({kind}, {options.panels} panels)")
     if options.viscous and (shown["converged"] == FIRST_ORDER_MARK).any():
         typer.echo(f"{FIRST_ORDER_MARK}: {FIRST_ORDER_NOTE}")
+    if options.viscous and (shown["converged"] == "no").any():
+        typer.echo(NOT_CONVERGED_NOTE)
     if out is not None:
         write_table(table, out)
         typer.echo(f"wrote {len(table)} rows to {out}")
