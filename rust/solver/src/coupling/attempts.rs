@@ -30,10 +30,10 @@ fn starter_settings(settings: &ViscousSettings) -> ViscousSettings {
 /// defect; last, the quasi-simultaneous iteration on its own with its strategies (cautious,
 /// stiff), each finished by the Newton iteration; where all of those fail, the last attempts
 /// (a held transition point, a turbulent wake start) and, below Re 2e5 or above 1e7,
-/// continuation in the Reynolds number ([`reynolds_continuation`]). The first attempt that converges is kept,
-/// otherwise the last one. Above [`COARSE_START_ABOVE`] panels the Newton iteration from the
-/// coarse model's solution comes first ([`coarse_start`]), and the warm-started starter before
-/// the neighbour's full iterate.
+/// continuation in the Reynolds number ([`reynolds_continuation`]). The first attempt that
+/// converges is kept, otherwise the last one. Above [`COARSE_START_ABOVE`] panels the Newton
+/// iteration from the coarse model's solution comes first ([`coarse_start`]), and the
+/// warm-started starter before the neighbour's full iterate.
 pub(crate) fn solve_angle(
     section: &SectionModel,
     alpha_deg: f64,
@@ -81,6 +81,8 @@ fn coarse_start(
     Some(state.on_case(&case, fine))
 }
 
+/// Solves one case: [`first_attempts`], then, where they leave it unconverged (or, above Re
+/// 1e7, first-order only), continuation in the Reynolds number ([`continuation_wanted`]).
 pub(super) fn solve_case_model(
     case: &CaseModel,
     settings: &ViscousSettings,
