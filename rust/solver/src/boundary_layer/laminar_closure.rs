@@ -8,7 +8,7 @@
 //! monotonically along that combined branch, so each closure is single-valued in H. Between the
 //! rows the closures are interpolated by monotone cubics (C¹, no overshoot); outside the table
 //! they continue with the bounded, sign-preserving extension of
-//! [`MonotoneCubic`](super::interpolation::MonotoneCubic).
+//! `MonotoneCubic` (`interpolation`).
 
 use std::sync::OnceLock;
 

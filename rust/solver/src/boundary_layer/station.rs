@@ -73,7 +73,7 @@ impl MarchSettings {
 /// Quasi-simultaneous interaction (Veldman 1981, J. Eng. Math. 15; Veldman 2009, "A simple
 /// interaction law for viscous–inviscid interaction", J. Eng. Math. 65): at station i the edge
 /// velocity is not prescribed but tied to the local mass defect m_i = ue_i δ*_i by
-///   ue_i = external_velocity[i] + interaction_coefficient[i] · m_i
+///   `ue_i = external_velocity[i] + interaction_coefficient[i] · m_i`
 /// and solved simultaneously with the integral equations. A zero coefficient gives the direct
 /// mode (prescribed edge velocity). A positive coefficient (a local displacement bump speeds the
 /// flow up, as a Hilbert-integral interaction law does) removes the Goldstein singularity.

@@ -18,7 +18,7 @@ pub enum LaminarTrailingEdge {
     #[default]
     AsLaminar,
     /// Turbulent from the trailing edge, with the turbulent start of any transition
-    /// ([`super::lag_entrainment::turbulent_start`]: θ kept, H capped, CE at equilibrium) —
+    /// (`lag_entrainment::turbulent_start`: θ kept, H capped, CE at equilibrium) —
     /// the wake start of the coupled Newton system, whose wake equations are turbulent.
     TurbulentStart,
 }
@@ -29,7 +29,7 @@ pub enum LaminarTrailingEdge {
 /// states: θ = θu + θl, δ* = δ*u + δ*l + `te_gap` (the base thickness, which the caller may pass
 /// as 0 and handle itself), CE the θ-weighted average of both sides (zero from a laminar side).
 /// The equations are the turbulent ones with Cf = 0 and λ = 0.5 (see
-/// [`super::lag_entrainment::dissipation_length_factor`]), with the same interaction law.
+/// `lag_entrainment::dissipation_length_factor`), with the same interaction law.
 pub fn march_wake(
     input: &SideInput,
     upper_te: &Station,

@@ -34,8 +34,8 @@ const SMALL_JUMP_CL: f64 = 2e-3;
 /// sign — free-transition lift curves are not smooth on the scale of a panel). When the lift
 /// stops growing before the target is reached the target lies beyond the section's maximum
 /// (or minimum) lift, and a `SolverError::Convergence` says so, giving the extreme lift found;
-/// when the bracket shrinks below [`MIN_BRACKET_DEG`] without reaching the target, the lift
-/// jumps across it: a jump of at most [`SMALL_JUMP_CL`] gives the row on its nearer side, a
+/// when the bracket shrinks below `MIN_BRACKET_DEG` (0.001°) without reaching the target, the lift
+/// jumps across it: a jump of at most `SMALL_JUMP_CL` (0.002) gives the row on its nearer side, a
 /// larger one an error that gives the two sides of the jump.
 pub fn solve_for_cl(
     section: &Section,

@@ -427,7 +427,7 @@ impl PanelSolver {
         })
     }
 
-    /// Mass-defect influence matrix D, (N + Nw)²: D[i][j] = ∂(edge velocity i)/∂(m_j), surface
+    /// Mass-defect influence matrix D, (N + Nw)²: `D[i][j]` = ∂(edge velocity i)/∂(m_j), surface
     /// nodes then wake nodes, with the signs of the module documentation. The edge velocity
     /// with displacement is `edge_velocity(α, wake) + D·m`. It does not depend on α except
     /// through the wake geometry.

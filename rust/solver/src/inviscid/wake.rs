@@ -6,7 +6,7 @@ use super::PanelSolver;
 
 /// Wake nodes behind the trailing edge (chord-normalised), first node at the trailing-edge
 /// midpoint, then downstream. Spacing grows geometrically from about the trailing-edge panel
-/// length (at most half a blunt base's height, [`BASE_RESOLVING_FRACTION`]).
+/// length (at most half a blunt base's height, `BASE_RESOLVING_FRACTION`).
 #[derive(Debug, Clone, PartialEq)]
 pub struct Wake {
     /// Node abscissae.
