@@ -76,11 +76,32 @@ impl DenseMatrix {
         let mut blocks = self.data.chunks_exact(8 * n);
         for block in &mut blocks {
             let mut s = [-0.0f64; 8];
-            let rows: [&[f64]; 8] = std::array::from_fn(|i| &block[i * n..(i + 1) * n]);
-            for (j, &xj) in x.iter().enumerate().take(n) {
-                for i in 0..8 {
-                    s[i] += rows[i][j] * xj;
-                }
+            // (Rows and x zipped, so that no element access needs a bounds check.)
+            let (r0, rest) = block.split_at(n);
+            let (r1, rest) = rest.split_at(n);
+            let (r2, rest) = rest.split_at(n);
+            let (r3, rest) = rest.split_at(n);
+            let (r4, rest) = rest.split_at(n);
+            let (r5, rest) = rest.split_at(n);
+            let (r6, r7) = rest.split_at(n);
+            let columns = r0
+                .iter()
+                .zip(r1)
+                .zip(r2)
+                .zip(r3)
+                .zip(r4)
+                .zip(r5)
+                .zip(r6)
+                .zip(r7);
+            for ((((((((a0, a1), a2), a3), a4), a5), a6), a7), &xj) in columns.zip(x) {
+                s[0] += a0 * xj;
+                s[1] += a1 * xj;
+                s[2] += a2 * xj;
+                s[3] += a3 * xj;
+                s[4] += a4 * xj;
+                s[5] += a5 * xj;
+                s[6] += a6 * xj;
+                s[7] += a7 * xj;
             }
             y.extend_from_slice(&s);
         }
