@@ -134,58 +134,11 @@ fn section_naca<'py>(
 fn naca_designation<'py>(py: Python<'py>, code: &str) -> PyResult<Bound<'py, PyDict>> {
     let d = guarded(py, "naca_designation", || naca::parse_designation(code))?;
     let out = PyDict::new(py);
-    match d {
-        naca::Designation::FourDigit {
-            camber,
-            camber_position,
-            thickness,
-        } => {
-            out.set_item("family", "naca4")?;
-            out.set_item("camber", camber)?;
-            out.set_item("camber_position", camber_position)?;
-            out.set_item("thickness", thickness)?;
-        }
-        naca::Designation::FourDigitModified {
-            camber,
-            camber_position,
-            thickness,
-            le_radius_index,
-            max_thickness_position,
-        } => {
-            out.set_item("family", "naca4_modified")?;
-            out.set_item("camber", camber)?;
-            out.set_item("camber_position", camber_position)?;
-            out.set_item("thickness", thickness)?;
-            out.set_item("le_radius_index", le_radius_index)?;
-            out.set_item("max_thickness_position", max_thickness_position)?;
-        }
-        naca::Designation::FiveDigit {
-            design_cl,
-            max_camber_position,
-            reflexed,
-            thickness,
-        } => {
-            out.set_item("family", "naca5")?;
-            out.set_item("design_cl", design_cl)?;
-            out.set_item("max_camber_position", max_camber_position)?;
-            out.set_item("reflexed", reflexed)?;
-            out.set_item("thickness", thickness)?;
-        }
-        naca::Designation::FiveDigitModified {
-            design_cl,
-            max_camber_position,
-            reflexed,
-            thickness,
-            le_radius_index,
-            max_thickness_position,
-        } => {
-            out.set_item("family", "naca5_modified")?;
-            out.set_item("design_cl", design_cl)?;
-            out.set_item("max_camber_position", max_camber_position)?;
-            out.set_item("reflexed", reflexed)?;
-            out.set_item("thickness", thickness)?;
-            out.set_item("le_radius_index", le_radius_index)?;
-            out.set_item("max_thickness_position", max_thickness_position)?;
+    out.set_item("family", d.family())?;
+    for (name, value) in d.parameters() {
+        match value {
+            naca::DesignationValue::Number(x) => out.set_item(name, x)?,
+            naca::DesignationValue::Flag(flag) => out.set_item(name, flag)?,
         }
     }
     Ok(out)

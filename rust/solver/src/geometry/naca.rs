@@ -281,6 +281,82 @@ pub enum Designation {
     },
 }
 
+/// One parameter of a [`Designation`]: a number or a flag.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum DesignationValue {
+    /// A number (fractions of the chord, a design lift coefficient, an index).
+    Number(f64),
+    /// A yes/no parameter (a reflexed 5-digit mean line).
+    Flag(bool),
+}
+
+impl Designation {
+    /// The family's short name: naca4, naca4_modified, naca5 or naca5_modified.
+    pub fn family(&self) -> &'static str {
+        match self {
+            Designation::FourDigit { .. } => "naca4",
+            Designation::FourDigitModified { .. } => "naca4_modified",
+            Designation::FiveDigit { .. } => "naca5",
+            Designation::FiveDigitModified { .. } => "naca5_modified",
+        }
+    }
+
+    /// The parameters by name, in the order of the designation's variant fields.
+    pub fn parameters(&self) -> Vec<(&'static str, DesignationValue)> {
+        use DesignationValue::{Flag, Number};
+        match *self {
+            Designation::FourDigit {
+                camber,
+                camber_position,
+                thickness,
+            } => vec![
+                ("camber", Number(camber)),
+                ("camber_position", Number(camber_position)),
+                ("thickness", Number(thickness)),
+            ],
+            Designation::FourDigitModified {
+                camber,
+                camber_position,
+                thickness,
+                le_radius_index,
+                max_thickness_position,
+            } => vec![
+                ("camber", Number(camber)),
+                ("camber_position", Number(camber_position)),
+                ("thickness", Number(thickness)),
+                ("le_radius_index", Number(le_radius_index)),
+                ("max_thickness_position", Number(max_thickness_position)),
+            ],
+            Designation::FiveDigit {
+                design_cl,
+                max_camber_position,
+                reflexed,
+                thickness,
+            } => vec![
+                ("design_cl", Number(design_cl)),
+                ("max_camber_position", Number(max_camber_position)),
+                ("reflexed", Flag(reflexed)),
+                ("thickness", Number(thickness)),
+            ],
+            Designation::FiveDigitModified {
+                design_cl,
+                max_camber_position,
+                reflexed,
+                thickness,
+                le_radius_index,
+                max_thickness_position,
+            } => vec![
+                ("design_cl", Number(design_cl)),
+                ("max_camber_position", Number(max_camber_position)),
+                ("reflexed", Flag(reflexed)),
+                ("thickness", Number(thickness)),
+                ("le_radius_index", Number(le_radius_index)),
+                ("max_thickness_position", Number(max_thickness_position)),
+            ],
+        }
+    }
+}
+
 fn bad_code(code: &str, why: &str) -> SolverError {
     SolverError::input(format!(
         "unknown NACA designation '{code}': {why} (expected e.g. 2412, 0012-34, 23012 or 23112)"
