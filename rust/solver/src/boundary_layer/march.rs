@@ -178,14 +178,9 @@ pub(crate) fn laminar_step(
     start: bool,
     memory: &mut StepMemory,
 ) -> (LayerState, bool) {
-    if !start {
-        let (state, ok) = laminar_step_with(a, ds, edge, settings, closure, 0.5, memory);
-        if ok {
-            return (state, ok);
-        }
-    }
-    memory.guess = None;
-    laminar_step_with(a, ds, edge, settings, closure, 1.0, memory)
+    trapezoidal_or_backward_euler(start, memory, |weight, memory| {
+        laminar_step_with(a, ds, edge, settings, closure, weight, memory)
+    })
 }
 
 /// Turbulent or wake interval, with the same fallback as [`laminar_step`].
@@ -198,14 +193,26 @@ pub(crate) fn turbulent_step(
     start: bool,
     memory: &mut StepMemory,
 ) -> (LayerState, bool) {
+    trapezoidal_or_backward_euler(start, memory, |weight, memory| {
+        turbulent_step_with(a, ds, edge, settings, wake, weight, memory)
+    })
+}
+
+/// One interval by `step(weight, memory)`: the trapezoidal rule (weight 0.5), or backward
+/// Euler (1) at a layer's start or where the trapezoidal iteration fails, from a fresh start.
+fn trapezoidal_or_backward_euler(
+    start: bool,
+    memory: &mut StepMemory,
+    step: impl Fn(f64, &mut StepMemory) -> (LayerState, bool),
+) -> (LayerState, bool) {
     if !start {
-        let (state, ok) = turbulent_step_with(a, ds, edge, settings, wake, 0.5, memory);
+        let (state, ok) = step(0.5, memory);
         if ok {
             return (state, ok);
         }
     }
     memory.guess = None;
-    turbulent_step_with(a, ds, edge, settings, wake, 1.0, memory)
+    step(1.0, memory)
 }
 
 /// Newton start carried along a march: the first iterate for the next station, extrapolated
