@@ -304,40 +304,49 @@ impl Designation {
     /// The parameters by name, in the order of the designation's variant fields.
     pub fn parameters(&self) -> Vec<(&'static str, DesignationValue)> {
         use DesignationValue::{Flag, Number};
+        let four = |camber, camber_position, thickness| {
+            vec![
+                ("camber", Number(camber)),
+                ("camber_position", Number(camber_position)),
+                ("thickness", Number(thickness)),
+            ]
+        };
+        let five = |design_cl, max_camber_position, reflexed, thickness| {
+            vec![
+                ("design_cl", Number(design_cl)),
+                ("max_camber_position", Number(max_camber_position)),
+                ("reflexed", Flag(reflexed)),
+                ("thickness", Number(thickness)),
+            ]
+        };
+        let modified = |mut base: Vec<_>, le_radius_index, max_thickness_position| {
+            base.push(("le_radius_index", Number(le_radius_index)));
+            base.push(("max_thickness_position", Number(max_thickness_position)));
+            base
+        };
         match *self {
             Designation::FourDigit {
                 camber,
                 camber_position,
                 thickness,
-            } => vec![
-                ("camber", Number(camber)),
-                ("camber_position", Number(camber_position)),
-                ("thickness", Number(thickness)),
-            ],
+            } => four(camber, camber_position, thickness),
             Designation::FourDigitModified {
                 camber,
                 camber_position,
                 thickness,
                 le_radius_index,
                 max_thickness_position,
-            } => vec![
-                ("camber", Number(camber)),
-                ("camber_position", Number(camber_position)),
-                ("thickness", Number(thickness)),
-                ("le_radius_index", Number(le_radius_index)),
-                ("max_thickness_position", Number(max_thickness_position)),
-            ],
+            } => modified(
+                four(camber, camber_position, thickness),
+                le_radius_index,
+                max_thickness_position,
+            ),
             Designation::FiveDigit {
                 design_cl,
                 max_camber_position,
                 reflexed,
                 thickness,
-            } => vec![
-                ("design_cl", Number(design_cl)),
-                ("max_camber_position", Number(max_camber_position)),
-                ("reflexed", Flag(reflexed)),
-                ("thickness", Number(thickness)),
-            ],
+            } => five(design_cl, max_camber_position, reflexed, thickness),
             Designation::FiveDigitModified {
                 design_cl,
                 max_camber_position,
@@ -345,14 +354,11 @@ impl Designation {
                 thickness,
                 le_radius_index,
                 max_thickness_position,
-            } => vec![
-                ("design_cl", Number(design_cl)),
-                ("max_camber_position", Number(max_camber_position)),
-                ("reflexed", Flag(reflexed)),
-                ("thickness", Number(thickness)),
-                ("le_radius_index", Number(le_radius_index)),
-                ("max_thickness_position", Number(max_thickness_position)),
-            ],
+            } => modified(
+                five(design_cl, max_camber_position, reflexed, thickness),
+                le_radius_index,
+                max_thickness_position,
+            ),
         }
     }
 }

@@ -142,3 +142,19 @@ fn unknown_designations_are_input_errors() {
         .to_string();
     assert!(msg.contains("24a2"), "{msg}");
 }
+
+#[test]
+fn a_designation_lists_its_family_and_parameters() {
+    // Our interface (the binding's `naca_designation` dict is built from it).
+    use wakerank_solver::geometry::naca::{parse_designation, DesignationValue};
+    let four = parse_designation("2412").unwrap();
+    assert_eq!(four.family(), "naca4");
+    let names: Vec<_> = four.parameters().iter().map(|p| p.0).collect();
+    assert_eq!(names, ["camber", "camber_position", "thickness"]);
+    let five = parse_designation("23112-45").unwrap();
+    assert_eq!(five.family(), "naca5_modified");
+    let parameters = five.parameters();
+    assert_eq!(parameters[2], ("reflexed", DesignationValue::Flag(true)));
+    assert_eq!(parameters.last().unwrap().0, "max_thickness_position");
+    assert_eq!(parameters.len(), 6);
+}
