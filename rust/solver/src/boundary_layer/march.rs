@@ -34,6 +34,17 @@ impl EdgeCondition {
             - self.interaction_coefficient * state.edge_velocity * state.shape_factor * state.theta
     }
 
+    /// The edge velocity the interaction law gives a station carrying the displacement
+    /// thickness of `a` (the Newton start of a step from `a`).
+    fn velocity_guess(&self, a: &LayerState) -> f64 {
+        interacted_velocity(
+            self.external_velocity,
+            self.interaction_coefficient,
+            a.shape_factor * a.theta,
+            a.edge_velocity,
+        )
+    }
+
     fn velocity_bounds(&self) -> (f64, f64) {
         (
             MIN_EDGE_VELOCITY,
@@ -76,12 +87,7 @@ fn laminar_step_with(
         entrainment: 0.0,
         edge_velocity: x[2],
     };
-    let ue_guess = interacted_velocity(
-        edge.external_velocity,
-        edge.interaction_coefficient,
-        a.shape_factor * a.theta,
-        a.edge_velocity,
-    );
+    let ue_guess = edge.velocity_guess(a);
     let (ue_min, ue_max) = edge.velocity_bounds();
     let options = newton_options(
         settings,
@@ -124,12 +130,7 @@ fn turbulent_step_with(
         entrainment: x[2],
         edge_velocity: x[3],
     };
-    let ue_guess = interacted_velocity(
-        edge.external_velocity,
-        edge.interaction_coefficient,
-        a.shape_factor * a.theta,
-        a.edge_velocity,
-    );
+    let ue_guess = edge.velocity_guess(a);
     let (ue_min, ue_max) = edge.velocity_bounds();
     let h_range = if wake {
         WAKE_SHAPE_FACTOR_RANGE
