@@ -195,8 +195,9 @@ def analyze(
     transition_lower (x/c), separation_upper, separation_lower (x/c of turbulent separation,
     null when none), converged, iterations, residual, wake_curvature (whether the row includes
     the wake-curvature pressure jump; false where only the first-order wake converged), then
-    l_over_d, reynolds, mach, n_factor, panels. Rows that did not converge are kept with
-    ``converged`` false.
+    l_over_d, critical_mach_reached (cp_min below the critical Cp: the flow turns locally
+    supersonic, outside the model's validity, no wave drag counted), reynolds, mach,
+    n_factor, panels. Rows that did not converge are kept with ``converged`` false.
     """
     alphas = parse_alpha(alpha_deg)
     mach_value = check_mach(mach)

@@ -18,7 +18,9 @@ table:
   lowest angle wins;
 * a value at a design cl says ``wake_curvature`` true when both points it interpolates
   include the wake-curvature term (docs/catalog.md; a missing column or value counts as
-  true);
+  true), and ``critical_mach_reached`` true when either of them has cp_min below the
+  critical Cp at its Mach number (the flow turns locally supersonic; missing columns count
+  as subcritical);
 * the drag bucket is the cl range spanned by the usable pre-stall points with
   cd <= 1.1 cd_min (cd_min over the same points).
 
@@ -31,6 +33,8 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 import polars as pl
+
+from wakerank import _core
 
 #: Columns identifying one polar.
 POLAR_KEY = ["section_id", "condition_id"]
@@ -56,6 +60,20 @@ _NEEDED = [
 ]
 
 
+def _supersonic(points: pl.LazyFrame) -> pl.Expr:
+    """Per point: cp_min below the critical Cp at the point's Mach number (the core's
+    isentropic relation, evaluated once per Mach number present)."""
+    names = points.collect_schema().names()
+    if "cp_min" not in names or "mach" not in names:
+        return pl.lit(False)
+    machs = points.select(pl.col("mach").unique().drop_nulls()).collect()["mach"].to_list()
+    critical = {m: _core.critical_pressure_coefficient(float(m)) for m in machs}
+    cp_star = pl.col("mach").replace_strict(
+        critical, default=float("-inf"), return_dtype=pl.Float64
+    )
+    return (pl.col("cp_min") < cp_star).fill_null(False)
+
+
 def _missing(name: str) -> pl.Expr:
     return pl.col(name).is_null() | pl.col(name).is_nan()
 
@@ -70,7 +88,7 @@ def prepare(points: pl.LazyFrame) -> pl.LazyFrame:
     has_flag = "wake_curvature" in points.collect_schema().names()
     flag = pl.col("wake_curvature").fill_null(True) if has_flag else pl.lit(True)
     p = (
-        points.select(*_NEEDED, flag.alias("wake_curvature"))
+        points.select(*_NEEDED, flag.alias("wake_curvature"), _supersonic(points).alias("_supersonic"))
         .with_columns(pl.struct(POLAR_KEY).hash(seed=0).alias("_key"))
         .sort(["_key", "alpha_deg"])
     )
@@ -132,7 +150,8 @@ def polar_features(prepared: pl.LazyFrame) -> pl.LazyFrame:
 
 def at_design_cl(prepared: pl.LazyFrame, design_cl: Sequence[float]) -> pl.LazyFrame:
     """Per polar and design cl: interpolated alpha_deg, cd, cm_c4 and transition locations,
-    and whether both points interpolated include the wake-curvature term.
+    whether both points interpolated include the wake-curvature term, and whether either
+    turns locally supersonic (``critical_mach_reached``).
 
     Polars that do not bracket a design cl with a usable pair give no row for it.
     """
@@ -140,7 +159,8 @@ def at_design_cl(prepared: pl.LazyFrame, design_cl: Sequence[float]) -> pl.LazyF
     if not targets:
         raise ValueError("design cl: give at least one lift coefficient")
     same_polar = pl.col("_polar").shift(-1) == pl.col("_polar")
-    nxt = {name: pl.col(name).shift(-1) for name in [*INTERPOLATED, "cl", "wake_curvature"]}
+    carried = [*INTERPOLATED, "cl", "wake_curvature", "_supersonic"]
+    nxt = {name: pl.col(name).shift(-1) for name in carried}
     pairs = prepared.with_columns(
         (same_polar & pl.col("_pre_stall").shift(-1)).fill_null(False).alias("_next_ok"),
         (pl.col("_grid").shift(-1) == pl.col("_grid") + 1).alias("_adjacent"),
@@ -166,8 +186,11 @@ def at_design_cl(prepared: pl.LazyFrame, design_cl: Sequence[float]) -> pl.LazyF
     full_model = (pl.col("wake_curvature") & pl.col("_next_wake_curvature")).alias(
         "wake_curvature"
     )
+    supersonic = (pl.col("_supersonic") | pl.col("_next__supersonic")).alias(
+        "critical_mach_reached"
+    )
     return (
-        joined.select(*POLAR_KEY, "design_cl", *interpolated, full_model)
+        joined.select(*POLAR_KEY, "design_cl", *interpolated, full_model, supersonic)
         .sort([*POLAR_KEY, "design_cl", "alpha_deg"])
         .group_by([*POLAR_KEY, "design_cl"], maintain_order=True)
         .first()

@@ -26,6 +26,7 @@ PER_DESIGN_POINT = (
     "transition_upper",
     "transition_lower",
     "wake_curvature",
+    "critical_mach_reached",
 )
 
 #: Relative tolerance when matching a requested Reynolds or Mach number to the catalog's.

@@ -38,8 +38,17 @@ POLAR_COLUMNS: tuple[str, ...] = (
     "wake_curvature",
 )
 
-#: Columns after the fixed ones: lift-to-drag ratio and the flow conditions of the row.
-EXTRA_COLUMNS: tuple[str, ...] = ("l_over_d", "reynolds", "mach", "n_factor", "panels")
+#: Columns after the fixed ones: lift-to-drag ratio, whether the flow turns locally
+#: supersonic (cp_min below the critical Cp at the row's Mach number: outside the model's
+#: validity, no wave drag), and the flow conditions of the row.
+EXTRA_COLUMNS: tuple[str, ...] = (
+    "l_over_d",
+    "critical_mach_reached",
+    "reynolds",
+    "mach",
+    "n_factor",
+    "panels",
+)
 
 #: Columns that are null when the event does not occur (NaN in the core's arrays).
 _NULLABLE = ("separation_upper", "separation_lower")
@@ -101,8 +110,9 @@ def condition_keywords(
 
 
 def polar_frame(columns: dict[str, Any], cond: dict[str, Any] | None = None) -> pl.DataFrame:
-    """A polar table from the core's columns: the fixed columns first, then l_over_d and the
-    conditions (reynolds, mach, n_factor, panels) when `cond` is given."""
+    """A polar table from the core's columns: the fixed columns first, then l_over_d,
+    critical_mach_reached and the conditions (reynolds, mach, n_factor, panels) when `cond`
+    is given."""
     data: dict[str, Any] = {}
     for name in POLAR_COLUMNS:
         values = np.asarray(columns[name])
@@ -118,7 +128,11 @@ def polar_frame(columns: dict[str, Any], cond: dict[str, Any] | None = None) -> 
         pl.when(pl.col("cd") > 0)
         .then(pl.col("cl") / pl.col("cd"))
         .otherwise(None)
-        .alias("l_over_d")
+        .alias("l_over_d"),
+        pl.Series(
+            "critical_mach_reached",
+            np.asarray(columns["critical_mach_reached"]).astype(bool),
+        ),
     )
     if cond is not None:
         frame = frame.with_columns(

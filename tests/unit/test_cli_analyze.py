@@ -90,3 +90,16 @@ def test_viscous_view_blanks_the_values_of_rows_that_did_not_converge() -> None:
     assert failed["alpha_deg"] == -28.0 and failed["converged"] == "no"
     assert all(failed[name] is None for name in VISCOUS_SHOWN if name not in ("alpha_deg", "converged"))
     assert view.row(0, named=True)["cl"] == 1.5
+
+
+def test_analyze_warns_where_the_flow_turns_locally_supersonic() -> None:
+    # At M 0.7 the critical Cp is -0.78 (isentropic relations; Anderson, Modern Compressible
+    # Flow): the NACA 0012's cp_min passes it by 2° (-1.26), not at 0° (-0.63).
+    result = runner.invoke(
+        app, ["analyze", "0012", "--alpha", "0,2", "--re", "6e6", "--mach", "0.7"],
+        env={"COLUMNS": "200"},
+    )
+    assert result.exit_code == 0, result.output
+    assert "locally supersonic" in result.output and "alpha_deg = 2:" in result.output
+    quiet = runner.invoke(app, ["analyze", "0012", "--alpha", "0", "--mach", "0.3"])
+    assert quiet.exit_code == 0 and "supersonic" not in quiet.output

@@ -238,3 +238,50 @@ def test_rank_command_takes_the_design_point_from_the_manifest(tmp_path):
     result = CliRunner().invoke(app, ["rank", str(catalog), "--out", str(tmp_path / "s.parquet")])
     assert result.exit_code == 0, result.output
     assert pl.read_parquet(tmp_path / "s.parquet")["section_id"].to_list() == ["A"]
+
+
+def test_design_points_say_where_the_flow_turns_locally_supersonic(tmp_path):
+    # critical_mach_reached at a design cl: either interpolated point has cp_min below the
+    # critical Cp at its Mach number; at M 0.7 Cp* = -0.779 (isentropic relations, Anderson,
+    # Modern Compressible Flow). Hand-made: cp_min = -0.5 - 0.1 alpha passes it at 2.8 degrees;
+    # cl 0.25 lies at 0.5 degrees (both neighbours subcritical), cl 0.55 at 3.5 degrees.
+    rows = _polar("A")
+    for row in rows:
+        row["mach"] = 0.7
+        row["cp_min"] = -0.5 - 0.1 * row["alpha_deg"]
+    frame = pl.DataFrame(rows).with_columns(
+        [pl.lit(None).alias(k) for k in POINT_SCHEMA if k not in rows[0]]
+    )
+    frame = frame.select([pl.col(k).cast(v) for k, v in POINT_SCHEMA.items()])
+    (tmp_path / "points").mkdir(parents=True)
+    frame.write_parquet(tmp_path / "points" / "part-one.parquet")
+    sections = pl.DataFrame(
+        {"section_id": ["A"], "family": "handmade", "label": ["A"], "parameters": "{}",
+         "thickness": [0.12]}
+    ).with_columns(
+        [
+            pl.lit(None).cast(v).alias(k)
+            for k, v in SECTION_SCHEMA.items()
+            if k not in ("section_id", "family", "label", "parameters", "thickness")
+        ]
+    )
+    sections.select(list(SECTION_SCHEMA)).cast(SECTION_SCHEMA).write_parquet(
+        tmp_path / "sections.parquet"
+    )
+    (tmp_path / "manifest.json").write_text(json.dumps({"name": "handmade"}))
+    shortlist = rank(tmp_path, cl=[0.25, 0.55], weights=[0.5, 0.5], top=None)
+    row = shortlist.row(0, named=True)
+    assert row["critical_mach_reached_at_cl_0.25"] is False
+    assert row["critical_mach_reached_at_cl_0.55"] is True
+
+
+def test_the_ranking_benchmark_catalog_matches_the_catalog_schema(tmp_path):
+    # `wakerank bench rank` writes a synthetic catalog; it must carry every column of the
+    # point schema (it lacked wake_curvature once, and the benchmark failed), and rank.
+    from wakerank.bench.ranking import bench_rank, write_synthetic_catalog
+
+    rows = write_synthetic_catalog(tmp_path, points=2_000)
+    assert rows > 0
+    assert set(pl.read_parquet(tmp_path / "points").columns) == set(POINT_SCHEMA)
+    timings = bench_rank(tmp_path, repeats=1)
+    assert set(timings) == {"one design cl", "two design cls, weighted"}

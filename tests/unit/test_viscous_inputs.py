@@ -133,3 +133,15 @@ def test_cli_analyze_bad_reynolds_is_one_line_error():
     assert result.exit_code == 2
     assert "reynolds" in result.output
     assert "Traceback" not in result.output
+
+
+def test_viscous_rows_say_where_the_flow_turns_locally_supersonic():
+    # critical_mach_reached is cp_min < Cp*(M); at M 0.7 Cp* = -0.779 (isentropic relations,
+    # Anderson, Modern Compressible Flow): the NACA 0012 passes it by 2°, not at 0°; at M 0 it
+    # never does.
+    section = wr.Section.naca("0012")
+    polar = wr.analyze(section, alpha_deg=[0.0, 2.0], reynolds=6e6, mach=0.7)
+    assert polar["critical_mach_reached"].to_list() == [False, True]
+    assert polar["cp_min"][0] > -0.779 > polar["cp_min"][1]
+    incompressible = wr.analyze(section, alpha_deg=[4.0], reynolds=6e6)
+    assert not incompressible["critical_mach_reached"][0]

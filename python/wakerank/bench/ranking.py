@@ -69,6 +69,7 @@ def write_synthetic_catalog(directory: Path, points: int = 1_000_000, seed: int 
                 "converged": converged,
                 "iterations": 20,
                 "residual": 1e-7,
+                "wake_curvature": converged,
                 "error": None,
             }
         ).with_columns(pl.col("separation_upper").fill_nan(None))

@@ -80,6 +80,23 @@ NOT_CONVERGED_NOTE = (
 )
 
 
+def supersonic_note(table: pl.DataFrame) -> str:
+    """A warning naming the converged angles whose flow turns locally supersonic (empty when
+    none): there the Kármán–Tsien rule and the boundary layer are outside their validity and
+    cd counts no wave drag."""
+    if "critical_mach_reached" not in table.columns:
+        return ""
+    converged = pl.col("converged").fill_null(False) if "converged" in table.columns else True
+    hit = table.filter(pl.col("critical_mach_reached") & converged)
+    if hit.is_empty():
+        return ""
+    angles = ", ".join(f"{a:g}" for a in hit["alpha_deg"].to_list())
+    return (
+        f"warning: the flow turns locally supersonic (cp_min below the critical Cp) at "
+        f"alpha_deg = {angles}: outside the model's validity, cd has no wave drag"
+    )
+
+
 def viscous_view(table: pl.DataFrame) -> pl.DataFrame:
     """The on-screen columns of a viscous polar, `converged` as yes / yes* / no (yes*: the
     row comes from the first-order wake, see :data:`FIRST_ORDER_NOTE`). A row that did not
@@ -148,6 +165,9 @@ def run_analyze(spec: str, alpha: str, options: AnalyzeOptions, out: Optional[Pa
         typer.echo(f"{FIRST_ORDER_MARK}: {FIRST_ORDER_NOTE}")
     if options.viscous and (shown["converged"] == "no").any():
         typer.echo(NOT_CONVERGED_NOTE)
+    note = supersonic_note(table)
+    if note:
+        typer.echo(note)
     if out is not None:
         write_table(table, out)
         typer.echo(f"wrote {len(table)} rows to {out}")

@@ -131,15 +131,18 @@ def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> N
     headers += [f"cd@{t:g}" for t in targets] if several else []
     headers += ["cl_max", "margin", "|cm|max"] if several else ["L/D", "cl_max", "margin", "cm_c4"]
     rows = []
-    first_order_seen = False
+    first_order_seen = supersonic_seen = False
     for row in shortlist.iter_rows(named=True):
         cms = [row[design_column("cm_c4", t)] for t in targets]
         first_order = not all(row.get(design_column("wake_curvature", t), True) for t in targets)
         first_order_seen |= first_order
+        supersonic = any(row.get(design_column("critical_mach_reached", t)) for t in targets)
+        supersonic_seen |= supersonic
         cells = [str(row["rank"]), str(row["label"]), f"{row['thickness']:.3f}"]
         cells += [_reynolds(row["reynolds"])] if varying["reynolds"] else []
         cells += [str(row["transition"])] if varying["transition"] else []
-        cells.append(f"{row['weighted_cd']:.5f}" + ("*" if first_order else ""))
+        marks = ("*" if first_order else "") + ("!" if supersonic else "")
+        cells.append(f"{row['weighted_cd']:.5f}" + marks)
         if several:
             cells += [f"{row[design_column('cd', t)]:.5f}" for t in targets]
         else:
@@ -172,6 +175,11 @@ def print_shortlist(shortlist: Any, targets: list[float], console: Console) -> N
         console.print(
             "* : interpolated from a point solved with the first-order wake (no wake-curvature "
             "term; the full model had no converged solution there; docs/catalog.md)"
+        )
+    if supersonic_seen:
+        console.print(
+            "! : interpolated from a point whose flow turns locally supersonic (cp_min below the "
+            "critical Cp): outside the model's validity, cd has no wave drag"
         )
 
 

@@ -194,8 +194,16 @@ pub fn karman_trefftz_exact<'py>(
     ))
 }
 
+/// Critical pressure coefficient at free-stream Mach number `mach` (where the local flow
+/// turns sonic; minus infinity at M = 0), from the core's isentropic relations.
+#[pyfunction]
+fn critical_pressure_coefficient(mach: f64) -> f64 {
+    wakerank_solver::inviscid::compressibility::critical_cp(mach)
+}
+
 /// Register the functions of this module.
 pub fn register(m: &Bound<'_, PyModule>) -> PyResult<()> {
+    m.add_function(wrap_pyfunction!(critical_pressure_coefficient, m)?)?;
     m.add_function(wrap_pyfunction!(inviscid_polar, m)?)?;
     m.add_function(wrap_pyfunction!(inviscid_polar_batch, m)?)?;
     m.add_function(wrap_pyfunction!(inviscid_surface_arrays, m)?)?;

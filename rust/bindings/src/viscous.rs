@@ -116,6 +116,12 @@ fn rows_to_dict<'py>(py: Python<'py>, rows: &[ViscousRow]) -> PyResult<Bound<'py
         "wake_curvature",
         get(|r| if r.wake_curvature { 1.0 } else { 0.0 }),
     )?;
+    column(
+        py,
+        &dict,
+        "critical_mach_reached",
+        get(|r| if r.critical_mach_reached { 1.0 } else { 0.0 }),
+    )?;
     Ok(dict)
 }
 

@@ -75,6 +75,10 @@ pub struct ViscousRow {
     /// iteration's, and the fall-back where the full model has no converged solution) and for
     /// rows that did not converge.
     pub wake_curvature: bool,
+    /// Whether `cp_min` lies below the critical pressure coefficient at the free-stream Mach
+    /// number (the flow turns locally supersonic): outside the model's validity — the
+    /// Kármán–Tsien rule and the boundary layer know no shocks, and no wave drag is counted.
+    pub critical_mach_reached: bool,
 }
 
 impl ViscousRow {
@@ -97,6 +101,7 @@ impl ViscousRow {
             iterations,
             residual,
             wake_curvature: false,
+            critical_mach_reached: false,
         }
     }
 

@@ -5,7 +5,7 @@ use crate::boundary_layer::{Regime, SideSolution};
 use crate::error::Result;
 use crate::geometry::Section;
 
-use crate::inviscid::compressibility::karman_tsien_cp as karman_tsien;
+use crate::inviscid::compressibility::{critical_cp, karman_tsien_cp as karman_tsien};
 
 use super::attempts::{first_order_wake_solution, solve_angle};
 use super::forces::{
@@ -513,7 +513,9 @@ pub(crate) fn polar_row(
         iterations: sol.iterations,
         residual: sol.residual,
         wake_curvature: sol.wake_curvature && sol.converged,
+        critical_mach_reached: false,
     };
+    row.critical_mach_reached = row.cp_min < critical_cp(settings.mach);
     // A converged row never holds NaN: anything non-finite demotes it to a flagged row.
     if row.converged && !row.is_finite() {
         row.converged = false;
