@@ -88,7 +88,9 @@ def prepare(points: pl.LazyFrame) -> pl.LazyFrame:
     has_flag = "wake_curvature" in points.collect_schema().names()
     flag = pl.col("wake_curvature").fill_null(True) if has_flag else pl.lit(True)
     p = (
-        points.select(*_NEEDED, flag.alias("wake_curvature"), _supersonic(points).alias("_supersonic"))
+        points.select(
+            *_NEEDED, flag.alias("wake_curvature"), _supersonic(points).alias("_supersonic")
+        )
         .with_columns(pl.struct(POLAR_KEY).hash(seed=0).alias("_key"))
         .sort(["_key", "alpha_deg"])
     )
