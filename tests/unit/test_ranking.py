@@ -77,6 +77,12 @@ def _catalog(tmp_path: Path) -> Path:
     shuffled[:40].write_parquet(tmp_path / "points" / "part-one.parquet")
     shuffled[40:].write_parquet(tmp_path / "points" / "part-two.parquet")
     thickness = {"A": 0.12, "B": 0.12, "C": 0.12, "D": 0.12, "F": 0.10, "G": 0.13, "H": 0.12}
+    _write_sections(tmp_path, thickness)
+    return tmp_path
+
+
+def _write_sections(directory: Path, thickness: dict[str, float]) -> None:
+    """sections.parquet (id, label, thickness; other properties null) and the manifest."""
     sections = pl.DataFrame(
         {
             "section_id": list(thickness),
@@ -93,10 +99,9 @@ def _catalog(tmp_path: Path) -> Path:
         ]
     )
     sections.select(list(SECTION_SCHEMA)).cast(SECTION_SCHEMA).write_parquet(
-        tmp_path / "sections.parquet"
+        directory / "sections.parquet"
     )
-    (tmp_path / "manifest.json").write_text(json.dumps({"name": "handmade"}))
-    return tmp_path
+    (directory / "manifest.json").write_text(json.dumps({"name": "handmade"}))
 
 
 def test_cd_at_design_cl_interpolates_only_inside_segments(tmp_path):
@@ -255,20 +260,7 @@ def test_design_points_say_where_the_flow_turns_locally_supersonic(tmp_path):
     frame = frame.select([pl.col(k).cast(v) for k, v in POINT_SCHEMA.items()])
     (tmp_path / "points").mkdir(parents=True)
     frame.write_parquet(tmp_path / "points" / "part-one.parquet")
-    sections = pl.DataFrame(
-        {"section_id": ["A"], "family": "handmade", "label": ["A"], "parameters": "{}",
-         "thickness": [0.12]}
-    ).with_columns(
-        [
-            pl.lit(None).cast(v).alias(k)
-            for k, v in SECTION_SCHEMA.items()
-            if k not in ("section_id", "family", "label", "parameters", "thickness")
-        ]
-    )
-    sections.select(list(SECTION_SCHEMA)).cast(SECTION_SCHEMA).write_parquet(
-        tmp_path / "sections.parquet"
-    )
-    (tmp_path / "manifest.json").write_text(json.dumps({"name": "handmade"}))
+    _write_sections(tmp_path, {"A": 0.12})
     shortlist = rank(tmp_path, cl=[0.25, 0.55], weights=[0.5, 0.5], top=None)
     row = shortlist.row(0, named=True)
     assert row["critical_mach_reached_at_cl_0.25"] is False
