@@ -52,28 +52,18 @@ pub(crate) fn solve_angle(
 /// A first iterate for a finely panelled case from the same section and angle at the coarse
 /// model's panel count (nested iteration, as in full multigrid: the coarse problem is cheaper,
 /// and on the short trailing-edge panels of a fine one the quasi-simultaneous starter from the
-/// inviscid flow often diverges; docs/method.md, "Sweeps and warm starts"): the coarse case's
-/// converged solution from the inviscid flow (the starter and the Newton iteration, as the
-/// first attempt of [`solve_case_model`]; where that fails, every attempt of a coarse point
-/// without neighbours), carried over to the fine case's nodes ([`NewtonState::on_case`]).
-/// None when it does not converge. Like that attempt, it does not depend on the neighbours.
+/// inviscid flow often diverges; docs/method.md, "Sweeps and warm starts"): the coarse case
+/// solved as a point without neighbours by [`solve_case_model`] (first the starter and the
+/// Newton iteration from the inviscid flow, then its other attempts), its converged solution
+/// carried over to the fine case's nodes ([`NewtonState::on_case`]). None when it does not
+/// converge. It does not depend on the neighbours.
 fn coarse_start(
     coarse: &SectionModel,
     coarse_settings: &ViscousSettings,
     fine: &CaseModel,
 ) -> Option<NewtonState> {
     let case = CaseModel::new(coarse, fine.alpha_deg, coarse_settings).ok()?;
-    let first = solve_case(&case, &starter_settings(coarse_settings), None, PRIMARY).ok();
-    let quick = first.and_then(|first| {
-        CoupledProblem::new(&case, coarse_settings)
-            .solve(&NewtonState::from_coupled(&first))
-            .ok()
-            .filter(|s| s.converged)
-    });
-    let solution = match quick {
-        Some(solution) => solution,
-        None => solve_case_model(&case, coarse_settings, None, None)?,
-    };
+    let solution = solve_case_model(&case, coarse_settings, None, None)?;
     let state = solution
         .newton_state
         .as_ref()
