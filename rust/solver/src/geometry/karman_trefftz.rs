@@ -308,6 +308,51 @@ impl KarmanTrefftz {
             .collect();
         Ok((section.x, section.y, cp))
     }
+
+    /// Exact speed (in units of U∞) on the chord line's extension behind the trailing edge of a
+    /// symmetric section at zero incidence, `distances` chords behind the edge. The real axis
+    /// ζ > a of the circle plane maps onto that line, which is then the dividing streamline, so
+    /// the speed is (dw/dζ)/(dz/dζ) with dw/dζ = 1 − R²/(ζ − μ)² (Milne-Thomson §5). It checks the
+    /// panel method's speeds along the wake, which set how far θ still changes there.
+    pub fn exact_speed_behind_trailing_edge(&self, distances: &[f64]) -> Result<Vec<f64>> {
+        self.validate()?;
+        if self.center_y != 0.0 {
+            return Err(SolverError::geometry(format!(
+                "the speed behind the trailing edge is exact only for a symmetric section \
+                 (center_y = 0); got center_y {}",
+                self.center_y
+            )));
+        }
+        let frame = self.frame();
+        let x_of = |xi: f64| self.normalise(&frame, self.map(Complex::new(xi, 0.0))).0;
+        let r2 = self.radius().powi(2);
+        distances
+            .iter()
+            .map(|&d| {
+                if !(d.is_finite() && d > 0.0) {
+                    return Err(SolverError::geometry(format!(
+                        "distance behind the trailing edge must be positive, got {d}"
+                    )));
+                }
+                // x(ξ) rises monotonically from 1 at ξ = a: bisect for x = 1 + d.
+                let (mut lo, mut hi) = (A, 2.0 * A);
+                while x_of(hi) < 1.0 + d {
+                    hi *= 2.0;
+                }
+                for _ in 0..200 {
+                    let mid = 0.5 * (lo + hi);
+                    if x_of(mid) < 1.0 + d {
+                        lo = mid;
+                    } else {
+                        hi = mid;
+                    }
+                }
+                let xi = 0.5 * (lo + hi);
+                let dw = 1.0 - r2 / (xi - self.center_x).powi(2);
+                Ok(dw / self.map_derivative(Complex::new(xi, 0.0)).re)
+            })
+            .collect()
+    }
 }
 
 #[cfg(test)]
@@ -332,6 +377,30 @@ mod tests {
         let d = kt.map_derivative(z);
         let expect_d = Complex::new(1.0, 0.0).sub(Complex::new(1.0, 0.0).div(z.mul(z)));
         assert!(d.sub(expect_d).abs() < 1e-12);
+    }
+
+    #[test]
+    fn speed_behind_a_joukowski_edge_matches_the_inverted_map() {
+        // Joukowski z = ζ + 1/ζ inverted in closed form, ζ = (z + √(z² − 4))/2 (Milne-Thomson
+        // §5), against the bisection of the general map; far behind, the speed tends to U∞
+        // like a doublet, 1 − O(1/d²) (common practice).
+        let kt = KarmanTrefftz::joukowski(-0.115, 0.0);
+        let frame = kt.frame();
+        let d = [0.25, 1.0, 2.0, 8.0];
+        let speeds = kt.exact_speed_behind_trailing_edge(&d).unwrap();
+        for (&dk, &q) in d.iter().zip(&speeds) {
+            let z = frame.leading_edge.re + (1.0 + dk) * frame.chord;
+            let zeta = 0.5 * (z + (z * z - 4.0).sqrt());
+            let dw = 1.0 - kt.radius().powi(2) / (zeta - kt.center_x).powi(2);
+            let expect = dw / (1.0 - 1.0 / (zeta * zeta));
+            assert!((q - expect).abs() < 1e-12, "{dk}: {q} vs {expect}");
+            assert!(q < 1.0, "{dk}: {q}");
+        }
+        let deficit_ratio = (1.0 - speeds[3]) / (1.0 - speeds[2]);
+        assert!(deficit_ratio < 0.15, "deficit 8c / 2c = {deficit_ratio}");
+        assert!(KarmanTrefftz::joukowski(-0.1, 0.05)
+            .exact_speed_behind_trailing_edge(&[1.0])
+            .is_err());
     }
 
     #[test]
