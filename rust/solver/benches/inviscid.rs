@@ -2,6 +2,7 @@
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use wakerank_solver::geometry::karman_trefftz::KarmanTrefftz;
+use wakerank_solver::linalg::{DenseMatrix, LuFactors};
 use wakerank_solver::PanelSolver;
 
 fn section_160() -> wakerank_solver::Section {
@@ -41,5 +42,35 @@ fn coupling_matrix(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, factorise, fifteen_angles, coupling_matrix);
+/// The dense LU of the coupled Newton step's reduced system: one unknown per boundary-layer
+/// station (160 panels and 60 wake nodes give about 220).
+fn dense_lu(c: &mut Criterion) {
+    let n = 220;
+    let matrix = DenseMatrix {
+        rows: n,
+        cols: n,
+        data: (0..n * n)
+            .map(|k| {
+                let (r, col) = (k / n, k % n);
+                let d = 1.0 + (r as f64 - col as f64).abs();
+                if r == col {
+                    4.0
+                } else {
+                    ((k as f64 * 0.618_033_988_7).fract() - 0.5) / d
+                }
+            })
+            .collect(),
+    };
+    c.bench_function("dense LU with partial pivoting, 220 unknowns", |b| {
+        b.iter(|| LuFactors::new(black_box(matrix.clone())).unwrap())
+    });
+}
+
+criterion_group!(
+    benches,
+    factorise,
+    fifteen_angles,
+    coupling_matrix,
+    dense_lu
+);
 criterion_main!(benches);
