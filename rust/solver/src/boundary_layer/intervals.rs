@@ -14,10 +14,11 @@
 //! amplification factor N while laminar, the entrainment coefficient CE when turbulent or in
 //! the wake) and the shape factor through the mass defect.
 
+pub(crate) use super::lag_entrainment::turbulent_residuals_between;
 use super::lag_entrainment::{turbulent_residuals, turbulent_start, TurbulentTerms};
 use super::laminar::{
-    laminar_residuals, stagnation_theta, LaminarTerms, LAMINAR_SHAPE_FACTOR_RANGE,
-    STAGNATION_SHAPE_FACTOR,
+    laminar_residuals, laminar_residuals_between, stagnation_theta, LaminarTerms,
+    LAMINAR_SHAPE_FACTOR_RANGE, STAGNATION_SHAPE_FACTOR,
 };
 use super::laminar_closure::LaminarClosure;
 use super::station::LayerState;
@@ -105,18 +106,41 @@ pub(crate) fn laminar_interval_residual(
     ds: f64,
     weight: f64,
 ) -> [f64; 3] {
-    let at_a = LaminarTerms::new(&a.state, ctx.reynolds, ctx.closure);
-    let [r1, r2] = laminar_residuals(
-        &a.state,
-        &at_a,
-        &b.state,
-        ds,
-        weight,
-        ctx.reynolds,
-        ctx.closure,
-    );
-    let growth = 0.5 * ds * (ctx.growth(&a.state) + ctx.growth(&b.state));
+    let (at_a, at_b) = (ctx.laminar_end(&a.state), ctx.laminar_end(&b.state));
+    laminar_interval_residual_between(a, &at_a, b, &at_b, ds, weight)
+}
+
+/// [`laminar_interval_residual`] with the terms at both ends given (the linearisation
+/// perturbs one end at a time and reuses the other's).
+pub(crate) fn laminar_interval_residual_between(
+    a: &StationState,
+    at_a: &LaminarEnd,
+    b: &StationState,
+    at_b: &LaminarEnd,
+    ds: f64,
+    weight: f64,
+) -> [f64; 3] {
+    let [r1, r2] =
+        laminar_residuals_between(&a.state, &at_a.terms, &b.state, &at_b.terms, ds, weight);
+    let growth = 0.5 * ds * (at_a.growth + at_b.growth);
     [r1, r2, b.amplification - a.amplification - growth]
+}
+
+/// The terms of the laminar equations at one end of an interval and its dN/ds.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct LaminarEnd {
+    terms: LaminarTerms,
+    growth: f64,
+}
+
+impl EquationContext<'_> {
+    /// The laminar terms and dN/ds at `state`.
+    pub(crate) fn laminar_end(&self, state: &LayerState) -> LaminarEnd {
+        LaminarEnd {
+            terms: LaminarTerms::new(state, self.reynolds, self.closure),
+            growth: self.growth(state),
+        }
+    }
 }
 
 /// Residuals of a turbulent interval on the wall or in the wake (momentum, entrainment, lag).

@@ -150,6 +150,18 @@ pub(crate) fn turbulent_residuals(
     wake: bool,
 ) -> [f64; 3] {
     let at_b = TurbulentTerms::new(b, reynolds, wake);
+    turbulent_residuals_between(a, at_a, b, &at_b, ds, weight)
+}
+
+/// [`turbulent_residuals`] with the terms at both ends given.
+pub(crate) fn turbulent_residuals_between(
+    a: &LayerState,
+    at_a: &TurbulentTerms,
+    b: &LayerState,
+    at_b: &TurbulentTerms,
+    ds: f64,
+    weight: f64,
+) -> [f64; 3] {
     let d_log_ue = (b.edge_velocity / a.edge_velocity).ln();
     let changes = [
         (b.theta / a.theta).ln(),

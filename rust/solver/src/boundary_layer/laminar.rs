@@ -81,6 +81,18 @@ pub(crate) fn laminar_residuals(
     closure: &dyn LaminarClosure,
 ) -> [f64; 2] {
     let at_b = LaminarTerms::new(b, reynolds, closure);
+    laminar_residuals_between(a, at_a, b, &at_b, ds, weight)
+}
+
+/// [`laminar_residuals`] with the terms at both ends given.
+pub(crate) fn laminar_residuals_between(
+    a: &LayerState,
+    at_a: &LaminarTerms,
+    b: &LayerState,
+    at_b: &LaminarTerms,
+    ds: f64,
+    weight: f64,
+) -> [f64; 2] {
     let d_log_ue = (b.edge_velocity / a.edge_velocity).ln();
     let changes = [
         (b.theta / a.theta).ln(),

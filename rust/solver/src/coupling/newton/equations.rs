@@ -2,10 +2,11 @@
 //! forward differences for the Newton step.
 
 use crate::boundary_layer::intervals::{
-    laminar_interval_residual, merged_wake_start, start_residual, transition_station_residual,
-    turbulent_interval_residual, upwinded_weight,
+    laminar_interval_residual_between, merged_wake_start, start_residual,
+    transition_station_residual, turbulent_interval_residual, turbulent_residuals_between,
+    upwinded_weight, LaminarEnd, StationState,
 };
-use crate::boundary_layer::lag_entrainment::turbulent_start;
+use crate::boundary_layer::lag_entrainment::{turbulent_start, TurbulentTerms};
 use crate::boundary_layer::{LayerState, Regime};
 
 use super::elimination::{StationLinearisation, MAX_EQUATIONS, SHARED_LOCAL};
@@ -22,6 +23,42 @@ pub(super) fn wake_side_state(reynolds: f64, state: &LayerState, regime: Regime)
     } else {
         *state
     }
+}
+
+/// The closure terms of one station as the end of an ordinary interval: laminar, or turbulent
+/// (with the interval's wake flag). Each forward difference of the linearisation perturbs one
+/// station, and the terms of the other end are the same numbers as at the iterate, so they are
+/// computed once per station ([`EndTable`]).
+#[derive(Debug, Clone, Copy)]
+enum EndTerms {
+    Laminar(LaminarEnd),
+    Turbulent { terms: TurbulentTerms, wake: bool },
+}
+
+/// No ends computed in advance.
+const NO_ENDS: [Option<EndTerms>; 2] = [None, None];
+
+/// Every station's [`EndTerms`] at the iterate and at the forward-difference perturbation of
+/// each of its four variables (ln θ, third, m, ue), for all stations' linearisations at once:
+/// each station is the end of two intervals, and each end used to be evaluated for every
+/// perturbation of either station.
+pub(super) struct EndTable {
+    base: Vec<EndTerms>,
+    perturbed: Vec<[EndTerms; 4]>,
+}
+
+/// Forward-difference step of variable `v` (ln θ, third, m, ue, transition unknowns) at value
+/// `x`, for a laminar or a turbulent station.
+fn difference_step(v: usize, x: f64, laminar: bool) -> f64 {
+    let typical = match v {
+        0 => 1.0,
+        1 if laminar => 1.0,
+        1 => 0.01,
+        2 => 1e-6,
+        3 => 0.1,
+        _ => 1.0,
+    };
+    DIFFERENCE_STEP * x.abs().max(typical)
 }
 
 /// Relative size of the forward-difference steps (about the square root of the rounding
@@ -101,6 +138,7 @@ impl CoupledProblem<'_> {
         unknowns: &Unknowns,
         k: usize,
         vars: &[NodeVars; 3],
+        ends: &[Option<EndTerms>; 2],
     ) -> [f64; MAX_EQUATIONS] {
         let ctx = &self.ctx;
         let (involved, _) = self.involved(layout, unknowns, k);
@@ -149,7 +187,19 @@ impl CoupledProblem<'_> {
                     self.interval_weight(layout, k, a.state.shape_factor, b.state.shape_factor);
                 match (regime(1), regime(0)) {
                     (Regime::Laminar, Regime::Laminar) => {
-                        put(&laminar_interval_residual(ctx, &a, &b, sb - sa, upwinded));
+                        let end = |e: Option<EndTerms>, s: &StationState| match e {
+                            Some(EndTerms::Laminar(t)) => t,
+                            _ => ctx.laminar_end(&s.state),
+                        };
+                        let (at_a, at_b) = (end(ends[1], &a), end(ends[0], &b));
+                        put(&laminar_interval_residual_between(
+                            &a,
+                            &at_a,
+                            &b,
+                            &at_b,
+                            sb - sa,
+                            upwinded,
+                        ));
                     }
                     (Regime::Laminar, _) => {
                         let side = layout.side_of(k).min(1);
@@ -174,18 +224,59 @@ impl CoupledProblem<'_> {
                             trip,
                         ));
                     }
-                    (_, r) => put(&turbulent_interval_residual(
-                        ctx,
-                        &a.state,
-                        &b.state,
-                        sb - sa,
-                        upwinded,
-                        r == Regime::Wake,
-                    )),
+                    (_, r) => {
+                        let wake = r == Regime::Wake;
+                        let end = |e: Option<EndTerms>, s: &StationState| match e {
+                            Some(EndTerms::Turbulent { terms, wake: w }) if w == wake => terms,
+                            _ => TurbulentTerms::new(&s.state, ctx.reynolds, wake),
+                        };
+                        let (at_a, at_b) = (end(ends[1], &a), end(ends[0], &b));
+                        put(&turbulent_residuals_between(
+                            &a.state,
+                            &at_a,
+                            &b.state,
+                            &at_b,
+                            sb - sa,
+                            upwinded,
+                        ))
+                    }
                 }
             }
         }
         out
+    }
+
+    /// The end terms of a station with variables `v` in `regime`.
+    fn end_of(&self, v: &NodeVars, regime: Regime) -> EndTerms {
+        let state = station_state(v, regime).state;
+        if regime == Regime::Laminar {
+            EndTerms::Laminar(self.ctx.laminar_end(&state))
+        } else {
+            let wake = regime == Regime::Wake;
+            let terms = TurbulentTerms::new(&state, self.ctx.reynolds, wake);
+            EndTerms::Turbulent { terms, wake }
+        }
+    }
+
+    /// The [`EndTable`] of the iterate.
+    pub(super) fn end_table(&self, unknowns: &Unknowns, ue: &[f64]) -> EndTable {
+        let n = unknowns.regime.len();
+        let mut table = EndTable {
+            base: Vec::with_capacity(n),
+            perturbed: Vec::with_capacity(n),
+        };
+        for j in 0..n {
+            let regime = unknowns.regime[j];
+            let vars = self.vars_of(unknowns, ue, j);
+            table.base.push(self.end_of(&vars, regime));
+            table.perturbed.push(std::array::from_fn(|v| {
+                let x = vars.get(v);
+                let mut perturbed = vars;
+                perturbed.set(v, x + difference_step(v, x, regime == Regime::Laminar));
+                self.end_of(&perturbed, regime)
+            }));
+        }
+        table
     }
 
     fn vars_of(&self, unknowns: &Unknowns, ue: &[f64], j: usize) -> NodeVars {
@@ -204,6 +295,7 @@ impl CoupledProblem<'_> {
         layout: &Layout,
         unknowns: &Unknowns,
         ue: &[f64],
+        ends: &EndTable,
         k: usize,
     ) -> StationLinearisation {
         let (involved, count) = self.involved(layout, unknowns, k);
@@ -213,7 +305,14 @@ impl CoupledProblem<'_> {
         }
         let n_local = self.local_count(unknowns, k);
         let rows = n_local + 1;
-        let base = self.residual(layout, unknowns, k, &vars);
+        // (An ordinary interval's ends from the table; `residual` ignores them elsewhere.)
+        let ordinary = layout.role[k] == Role::Interval;
+        let base_ends = if ordinary {
+            [Some(ends.base[k]), Some(ends.base[k - 1])]
+        } else {
+            NO_ENDS
+        };
+        let base = self.residual(layout, unknowns, k, &vars, &base_ends);
         let mut lin = StationLinearisation {
             involved,
             count,
@@ -231,18 +330,15 @@ impl CoupledProblem<'_> {
             };
             for v in 0..n_vars {
                 let x = vars[p].get(v);
-                let typical = match v {
-                    0 => 1.0,
-                    1 if laminar => 1.0,
-                    1 => 0.01,
-                    2 => 1e-6,
-                    3 => 0.1,
-                    _ => 1.0,
-                };
-                let h = DIFFERENCE_STEP * x.abs().max(typical);
+                let h = difference_step(v, x, laminar);
                 let mut perturbed = vars;
                 perturbed[p].set(v, x + h);
-                let r = self.residual(layout, unknowns, k, &perturbed);
+                // The perturbed end's terms from the table, the other end's as at the iterate.
+                let mut perturbed_ends = base_ends;
+                if let Some(end) = perturbed_ends.get_mut(p).filter(|e| e.is_some()) {
+                    *end = (v < 4).then(|| ends.perturbed[involved[p]][v]);
+                }
+                let r = self.residual(layout, unknowns, k, &perturbed, &perturbed_ends);
                 for row in 0..rows {
                     let d = (r[row] - base[row]) / h;
                     match v {
@@ -271,7 +367,7 @@ impl CoupledProblem<'_> {
                 for p in 0..count {
                     vars[p] = self.vars_of(unknowns, ue, involved[p]);
                 }
-                self.residual(layout, unknowns, k, &vars)
+                self.residual(layout, unknowns, k, &vars, &NO_ENDS)
             })
             .collect()
     }
@@ -287,7 +383,7 @@ impl CoupledProblem<'_> {
                 vars[p] = self.vars_of(unknowns, &ue, involved[p]);
             }
             let rows = self.local_count(unknowns, k) + 1;
-            let r = self.residual(layout, unknowns, k, &vars);
+            let r = self.residual(layout, unknowns, k, &vars, &NO_ENDS);
             total += norm_squared(&r[..rows]);
         }
         if total.is_finite() {

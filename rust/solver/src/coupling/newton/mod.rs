@@ -229,8 +229,9 @@ impl<'a> CoupledProblem<'a> {
             self.update_curvature_speeds(&mut layout, &unknowns, frozen.is_none());
             let ue = layout.edge_speeds(&unknowns.m);
             let lins: Option<Vec<_>> = frozen.is_none().then(|| {
+                let ends = self.end_table(&unknowns, &ue);
                 (0..layout.len())
-                    .map(|k| self.linearise(&layout, &unknowns, &ue, k))
+                    .map(|k| self.linearise(&layout, &unknowns, &ue, &ends, k))
                     .collect()
             });
             let residuals: Vec<[f64; MAX_EQUATIONS]> = match &lins {
