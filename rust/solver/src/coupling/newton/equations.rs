@@ -47,6 +47,17 @@ pub(super) struct EndTable {
     perturbed: Vec<[EndTerms; 4]>,
 }
 
+/// The ends of station k's interval (own station first) when it is an ordinary one; `residual`
+/// uses them only for laminar and turbulent intervals, and only where they are of the kind it
+/// needs.
+fn ordinary_ends(layout: &Layout, ends: &[EndTerms], k: usize) -> [Option<EndTerms>; 2] {
+    if layout.role[k] == Role::Interval {
+        [Some(ends[k]), Some(ends[k - 1])]
+    } else {
+        NO_ENDS
+    }
+}
+
 /// Forward-difference step of variable `v` (ln θ, third, m, ue, transition unknowns) at value
 /// `x`, for a laminar or a turbulent station.
 fn difference_step(v: usize, x: f64, laminar: bool) -> f64 {
@@ -258,25 +269,31 @@ impl CoupledProblem<'_> {
         }
     }
 
+    /// Every station's [`EndTerms`] at the iterate.
+    fn iterate_ends(&self, unknowns: &Unknowns, ue: &[f64]) -> Vec<EndTerms> {
+        (0..unknowns.regime.len())
+            .map(|j| self.end_of(&self.vars_of(unknowns, ue, j), unknowns.regime[j]))
+            .collect()
+    }
+
     /// The [`EndTable`] of the iterate.
     pub(super) fn end_table(&self, unknowns: &Unknowns, ue: &[f64]) -> EndTable {
-        let n = unknowns.regime.len();
-        let mut table = EndTable {
-            base: Vec::with_capacity(n),
-            perturbed: Vec::with_capacity(n),
-        };
-        for j in 0..n {
-            let regime = unknowns.regime[j];
-            let vars = self.vars_of(unknowns, ue, j);
-            table.base.push(self.end_of(&vars, regime));
-            table.perturbed.push(std::array::from_fn(|v| {
-                let x = vars.get(v);
-                let mut perturbed = vars;
-                perturbed.set(v, x + difference_step(v, x, regime == Regime::Laminar));
-                self.end_of(&perturbed, regime)
-            }));
+        let perturbed = (0..unknowns.regime.len())
+            .map(|j| {
+                let regime = unknowns.regime[j];
+                let vars = self.vars_of(unknowns, ue, j);
+                std::array::from_fn(|v| {
+                    let x = vars.get(v);
+                    let mut perturbed = vars;
+                    perturbed.set(v, x + difference_step(v, x, regime == Regime::Laminar));
+                    self.end_of(&perturbed, regime)
+                })
+            })
+            .collect();
+        EndTable {
+            base: self.iterate_ends(unknowns, ue),
+            perturbed,
         }
-        table
     }
 
     fn vars_of(&self, unknowns: &Unknowns, ue: &[f64], j: usize) -> NodeVars {
@@ -305,13 +322,7 @@ impl CoupledProblem<'_> {
         }
         let n_local = self.local_count(unknowns, k);
         let rows = n_local + 1;
-        // (An ordinary interval's ends from the table; `residual` ignores them elsewhere.)
-        let ordinary = layout.role[k] == Role::Interval;
-        let base_ends = if ordinary {
-            [Some(ends.base[k]), Some(ends.base[k - 1])]
-        } else {
-            NO_ENDS
-        };
+        let base_ends = ordinary_ends(layout, &ends.base, k);
         let base = self.residual(layout, unknowns, k, &vars, &base_ends);
         let mut lin = StationLinearisation {
             involved,
@@ -360,6 +371,7 @@ impl CoupledProblem<'_> {
         unknowns: &Unknowns,
         ue: &[f64],
     ) -> Vec<[f64; MAX_EQUATIONS]> {
+        let ends = self.iterate_ends(unknowns, ue);
         (0..layout.len())
             .map(|k| {
                 let (involved, count) = self.involved(layout, unknowns, k);
@@ -367,7 +379,7 @@ impl CoupledProblem<'_> {
                 for p in 0..count {
                     vars[p] = self.vars_of(unknowns, ue, involved[p]);
                 }
-                self.residual(layout, unknowns, k, &vars, &NO_ENDS)
+                self.residual(layout, unknowns, k, &vars, &ordinary_ends(layout, &ends, k))
             })
             .collect()
     }
@@ -375,6 +387,7 @@ impl CoupledProblem<'_> {
     /// Sum of squared residuals of every station (the merit function of the line search).
     pub(super) fn residual_norm(&self, layout: &Layout, unknowns: &Unknowns) -> f64 {
         let ue = layout.edge_speeds(&unknowns.m);
+        let ends = self.iterate_ends(unknowns, &ue);
         let mut total = 0.0;
         for k in 0..layout.len() {
             let (involved, count) = self.involved(layout, unknowns, k);
@@ -383,7 +396,7 @@ impl CoupledProblem<'_> {
                 vars[p] = self.vars_of(unknowns, &ue, involved[p]);
             }
             let rows = self.local_count(unknowns, k) + 1;
-            let r = self.residual(layout, unknowns, k, &vars, &NO_ENDS);
+            let r = self.residual(layout, unknowns, k, &vars, &ordinary_ends(layout, &ends, k));
             total += norm_squared(&r[..rows]);
         }
         if total.is_finite() {
