@@ -60,29 +60,19 @@ fn trailing_panel_update_baseline(
     }
 }
 
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx2")]
-unsafe fn trailing_panel_update_avx2(
-    tail: &mut [f64],
-    n: usize,
-    k0: usize,
-    k1: usize,
-    u: [&[f64]; PANEL],
-) {
-    trailing_panel_update_baseline(tail, n, k0, k1, u)
+/// `$name`: the baseline loop compiled with the instructions of `$feature` enabled.
+macro_rules! widened {
+    ($name:ident, $feature:literal) => {
+        #[cfg(target_arch = "x86_64")]
+        #[target_feature(enable = $feature)]
+        unsafe fn $name(tail: &mut [f64], n: usize, k0: usize, k1: usize, u: [&[f64]; PANEL]) {
+            trailing_panel_update_baseline(tail, n, k0, k1, u)
+        }
+    };
 }
 
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx512f")]
-unsafe fn trailing_panel_update_avx512(
-    tail: &mut [f64],
-    n: usize,
-    k0: usize,
-    k1: usize,
-    u: [&[f64]; PANEL],
-) {
-    trailing_panel_update_baseline(tail, n, k0, k1, u)
-}
+widened!(trailing_panel_update_avx2, "avx2");
+widened!(trailing_panel_update_avx512, "avx512f");
 
 #[cfg(test)]
 mod tests {
