@@ -20,13 +20,14 @@ impl CoupledProblem<'_> {
         &self,
         layout: &mut Layout,
         unknowns: &Unknowns,
+        induced: &[f64],
         jacobian: bool,
     ) {
         let case = self.case;
         if !self.models_wake_curvature() || layout.wake.is_empty() {
             return;
         }
-        let ue = layout.edge_speeds(&unknowns.m);
+        let ue = layout.edge_speeds_with_induced(induced);
         // ue(δ* + θ) = m + ue θ at each wake node; the merged trailing-edge node sums both sides.
         let flux = |k: usize| unknowns.m[k] + ue[k] * unknowns.ln_theta[k].exp();
         let [upper, lower] = layout.trailing_edges();

@@ -384,9 +384,15 @@ impl CoupledProblem<'_> {
             .collect()
     }
 
-    /// Sum of squared residuals of every station (the merit function of the line search).
-    pub(super) fn residual_norm(&self, layout: &Layout, unknowns: &Unknowns) -> f64 {
-        let ue = layout.edge_speeds(&unknowns.m);
+    /// Sum of squared residuals of every station (the merit function of the line search), at
+    /// the edge speeds `ue` of the iterate's mass defects when they are known.
+    pub(super) fn residual_norm(
+        &self,
+        layout: &Layout,
+        unknowns: &Unknowns,
+        ue: Option<Vec<f64>>,
+    ) -> f64 {
+        let ue = ue.unwrap_or_else(|| layout.edge_speeds(&unknowns.m));
         let ends = self.iterate_ends(unknowns, &ue);
         let mut total = 0.0;
         for k in 0..layout.len() {

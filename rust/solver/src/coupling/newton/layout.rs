@@ -233,9 +233,14 @@ impl Layout {
 
     /// Edge speeds of every station for mass defects `m`: ue = ue_inv + D·m.
     pub(crate) fn edge_speeds(&self, m: &[f64]) -> Vec<f64> {
-        self.influence
-            .matvec(m)
-            .into_iter()
+        self.edge_speeds_with_induced(&self.influence.matvec(m))
+    }
+
+    /// Edge speeds from the speeds `induced` = D·m the mass defects induce (one product
+    /// shared by two sets of inviscid speeds, `newton::curvature`).
+    pub(crate) fn edge_speeds_with_induced(&self, induced: &[f64]) -> Vec<f64> {
+        induced
+            .iter()
             .zip(&self.ue_inviscid)
             .map(|(induced, base)| base + induced)
             .collect()

@@ -226,8 +226,10 @@ impl<'a> CoupledProblem<'a> {
         let mut unpinned: Option<(Layout, Unknowns, usize, f64)> = None;
         for iteration in 1..=MAX_NEWTON_ITERATIONS.min(self.settings.max_iterations.max(1)) {
             iterations = iteration;
-            self.update_curvature_speeds(&mut layout, &unknowns, frozen.is_none());
-            let ue = layout.edge_speeds(&unknowns.m);
+            // (D·m once for the edge speeds before and after the curvature sheet's update.)
+            let induced = layout.influence.matvec(&unknowns.m);
+            self.update_curvature_speeds(&mut layout, &unknowns, &induced, frozen.is_none());
+            let ue = layout.edge_speeds_with_induced(&induced);
             let lins: Option<Vec<_>> = frozen.is_none().then(|| {
                 let ends = self.end_table(&unknowns, &ue);
                 (0..layout.len())
@@ -310,8 +312,8 @@ impl<'a> CoupledProblem<'a> {
             let mut accepted_norm = f64::INFINITY;
             for attempt in 0..=LINE_SEARCH_HALVINGS {
                 let mut trial = unknowns.clone();
-                self.apply_step(&layout, &mut trial, &ue, &step, scale);
-                let trial_norm = self.residual_norm(&layout, &trial);
+                let trial_ue = self.apply_step(&layout, &mut trial, &ue, &step, scale);
+                let trial_norm = self.residual_norm(&layout, &trial, trial_ue);
                 accepted = trial;
                 accepted_norm = trial_norm;
                 if trial_norm < base_norm || attempt == LINE_SEARCH_HALVINGS {

@@ -31,7 +31,8 @@ pub(super) const LAMINAR_MAX_SHAPE_FACTOR: f64 = 16.0;
 impl CoupledProblem<'_> {
     /// Applies the Newton corrections, relaxed so that ln θ changes by at most
     /// MAX_LOG_THETA_STEP and m, H and CE by at most MAX_RELATIVE_STEP of their value; then keeps
-    /// every shape factor inside the range of its closure.
+    /// every shape factor inside the range of its closure. Returns the edge speeds of the new
+    /// iterate when no mass defect had to be changed for that last bound (else None).
     pub(super) fn apply_step(
         &self,
         layout: &Layout,
@@ -39,7 +40,7 @@ impl CoupledProblem<'_> {
         ue: &[f64],
         step: &Corrections,
         scale: f64,
-    ) {
+    ) -> Option<Vec<f64>> {
         let due = layout.influence.matvec(&step.mass);
         let mut omega: f64 = scale;
         let mut limit = |change: f64, allowed: f64| {
@@ -104,6 +105,7 @@ impl CoupledProblem<'_> {
             }
         }
         let ue_new = layout.edge_speeds(&unknowns.m);
+        let mut clamped = false;
         for k in 0..layout.len() {
             let (lo, hi) = match unknowns.regime[k] {
                 Regime::Laminar => (LAMINAR_MIN_SHAPE_FACTOR, LAMINAR_MAX_SHAPE_FACTOR),
@@ -114,7 +116,9 @@ impl CoupledProblem<'_> {
             let h = unknowns.m[k] / scale;
             if h < lo || h > hi {
                 unknowns.m[k] = h.clamp(lo, hi) * scale;
+                clamped = true;
             }
         }
+        (!clamped).then_some(ue_new)
     }
 }
