@@ -164,7 +164,10 @@ impl Factorisation {
 
     /// Factorises the linearised coupled system; `influence[k][l]` = ∂ue_k/∂m_l. None when a
     /// station's local Jacobian or the reduced system is singular.
-    pub(crate) fn new(stations: &[StationLinearisation], influence: &DenseMatrix) -> Option<Self> {
+    pub(crate) fn new(
+        stations: Vec<StationLinearisation>,
+        influence: &DenseMatrix,
+    ) -> Option<Self> {
         let k_total = stations.len();
         let mut gain = vec![0.0; k_total * MAX_LOCAL * k_total];
         let mut complement = vec![[0.0; MAX_EQUATIONS]; k_total];
@@ -237,7 +240,7 @@ impl Factorisation {
             complement,
             left: lefts,
             reduced,
-            stations: stations.to_vec(),
+            stations,
         })
     }
 
@@ -308,7 +311,7 @@ pub(crate) fn solve_step(
     stations: &[StationLinearisation],
     influence: &DenseMatrix,
 ) -> Option<Corrections> {
-    let factorisation = Factorisation::new(stations, influence)?;
+    let factorisation = Factorisation::new(stations.to_vec(), influence)?;
     let residuals: Vec<[f64; MAX_EQUATIONS]> = stations.iter().map(|s| s.residual).collect();
     factorisation.corrections(&residuals)
 }

@@ -292,7 +292,7 @@ impl<'a> CoupledProblem<'a> {
                 continue;
             }
             let chord = frozen.is_some();
-            if let Some(l) = &lins {
+            if let Some(l) = lins {
                 frozen = Factorisation::new(l, layout.step_influence());
             }
             let Some(step) = frozen.as_ref().and_then(|f| f.corrections(&residuals)) else {
