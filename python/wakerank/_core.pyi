@@ -52,6 +52,9 @@ def critical_pressure_coefficient(mach: float) -> float: ...
 def karman_trefftz_exact(
     center_x: float, center_y: float, trailing_edge_angle_deg: float, n_points: int, alpha_deg: float
 ) -> tuple[str, _Array, _Array, _Array, float]: ...
+def karman_trefftz_wake_speeds(
+    center_x: float, trailing_edge_angle_deg: float, panels: int, distances: list[float]
+) -> tuple[float, _Array, _Array]: ...
 
 # Viscous analysis (rust/bindings/src/viscous.rs); each releases the GIL while it runs.
 def viscous_sweep(

@@ -13,6 +13,8 @@ comparison names its source. Published values:
   dcl/dα = (0.1025 + 0.00485 log10(Re/1e6)) / √(1 − M²) per degree.
 - Maximum lift of the NACA 0012 at M 0.15: Ladson, NASA TM-4074 (1988): 1.61–1.63 near 17°
   tripped at Re 6e6; 1.66 (Re 5.97e6) and 1.41 (Re 2e6) with free transition.
+- Speed along the wake behind symmetric Kármán–Trefftz sections: the exact potential flow of
+  the conformal map (Milne-Thomson, *Theoretical Aerodynamics*, §5).
 - Flat plates, one side: Blasius CF = 1.328/√Re (Schlichting & Gersten, *Boundary-Layer
   Theory*) and Kármán–Schoenherr 0.242/√CF = log10(Re·CF) (turbulent, tripped at the
   leading edge).
@@ -223,6 +225,29 @@ def flat_plates() -> list[Comparison]:
     return out
 
 
+#: Symmetric Kármán–Trefftz sections (circle centre, trailing-edge angle) of the wake check:
+#: about 12 % and 15 % thick.
+WAKE_CHECK_SECTIONS = ((-0.07, 10.0), (-0.10, 10.0))
+
+
+def wake_recovery(panels: int = 160) -> list[Comparison]:
+    """Edge speed along the wake behind symmetric Kármán–Trefftz sections at zero incidence,
+    0.25 to 2 chords behind the trailing edge: panel method beside the exact potential flow.
+    How fast it returns to free stream sets how much θ still changes in the wake."""
+    distances = [0.25, 1.0, 2.0]
+    src = "exact potential flow (conformal map, Milne-Thomson §5)"
+    out: list[Comparison] = []
+    for center_x, angle in WAKE_CHECK_SECTIONS:
+        thickness, computed, exact = _core.karman_trefftz_wake_speeds(
+            center_x, angle, panels, distances
+        )
+        case = f"Kármán–Trefftz t/c {thickness:.3f}, α 0°"
+        for d, got, want in zip(distances, computed, exact, strict=True):
+            out.append(Comparison(case, "wake speed / U∞", f"{d:g} c behind TE",
+                                  float(want), float(got), src))
+    return out
+
+
 def run_all(panels: int = 160) -> pl.DataFrame:
     """Every reference comparison as a table: case, quantity, condition, published, computed,
     deviation (relative), source."""
@@ -233,6 +258,7 @@ def run_all(panels: int = 160) -> pl.DataFrame:
         + lift_slope(panels)
         + maximum_lift(panels)
         + flat_plates()
+        + wake_recovery(panels)
     )
     return pl.DataFrame(
         {
@@ -257,6 +283,7 @@ __all__ = [
     "lift_slope",
     "maximum_lift",
     "flat_plates",
+    "wake_recovery",
     "karman_schoenherr",
     "mccroskey_lift_slope",
 ]

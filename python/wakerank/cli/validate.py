@@ -23,8 +23,8 @@ def validate(
     panels: int = typer.Option(160, "--panels", help="Surface panels of the airfoil cases."),
 ) -> None:
     """Run the reference cases (NACA 0012 vs Ladson NASA TM-4074 including maximum lift, lift
-    slope vs McCroskey, flat plates vs Blasius and Kármán–Schoenherr) and print computed beside
-    published values."""
+    slope vs McCroskey, flat plates vs Blasius and Kármán–Schoenherr, wake speeds vs exact
+    potential flow) and print computed beside published values."""
     with ErrorsAsMessages():
         from wakerank.validation import run_all
 

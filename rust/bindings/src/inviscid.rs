@@ -10,6 +10,7 @@ use pyo3::types::PyDict;
 use std::panic::{catch_unwind, AssertUnwindSafe};
 use wakerank_solver::batch::{analyze_inviscid, analyze_inviscid_batch, inviscid_surface};
 use wakerank_solver::geometry::karman_trefftz::KarmanTrefftz;
+use wakerank_solver::inviscid::exact_wake::wake_speed_check;
 use wakerank_solver::{InviscidSolution, Result as CoreResult, Section, SolverError};
 
 /// Run `work` without the GIL; a panic becomes an internal error.
@@ -201,6 +202,31 @@ fn critical_pressure_coefficient(mach: f64) -> f64 {
     wakerank_solver::inviscid::compressibility::critical_cp(mach)
 }
 
+/// Speeds along the wake behind a symmetric Kármán–Trefftz section at zero incidence, panel
+/// method beside exact potential flow, at `distances` chords behind the trailing edge: the
+/// thickness ratio, the panel speeds and the exact ones.
+#[pyfunction]
+fn karman_trefftz_wake_speeds<'py>(
+    py: Python<'py>,
+    center_x: f64,
+    trailing_edge_angle_deg: f64,
+    panels: usize,
+    distances: Vec<f64>,
+) -> PyResult<(f64, Py<PyAny>, Py<PyAny>)> {
+    let kt = KarmanTrefftz {
+        center_x,
+        center_y: 0.0,
+        trailing_edge_angle_deg,
+    };
+    let check =
+        guarded(py, || wake_speed_check(&kt, panels, &distances)).map_err(|e| to_pyerr(py, e))?;
+    Ok((
+        check.thickness,
+        check.panel.into_pyarray(py).into_any().unbind(),
+        check.exact.into_pyarray(py).into_any().unbind(),
+    ))
+}
+
 /// Register the functions of this module.
 pub fn register(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(critical_pressure_coefficient, m)?)?;
@@ -208,5 +234,6 @@ pub fn register(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(inviscid_polar_batch, m)?)?;
     m.add_function(wrap_pyfunction!(inviscid_surface_arrays, m)?)?;
     m.add_function(wrap_pyfunction!(karman_trefftz_exact, m)?)?;
+    m.add_function(wrap_pyfunction!(karman_trefftz_wake_speeds, m)?)?;
     Ok(())
 }

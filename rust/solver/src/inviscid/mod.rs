@@ -32,6 +32,7 @@
 //! γ(α) = cos α · γ(0°) + sin α · γ(90°) of two base solutions.
 
 pub mod compressibility;
+pub mod exact_wake;
 pub(crate) mod influence;
 mod transpiration;
 pub mod wake;
