@@ -6,6 +6,9 @@ import typer
 
 from wakerank.cli import app
 
+#: The viscous analysis' speed aim: converged operating points per second per core, 160 panels.
+VISCOUS_AIM_PER_CORE = 150
+
 bench_app = typer.Typer(help="Measure speed: cases per second of the compiled core.", no_args_is_help=True)
 app.add_typer(bench_app, name="bench")
 
@@ -47,8 +50,11 @@ def bench_viscous(
         table = Table(title="viscous analysis cost")
         for column in ("panels", "points", "converged", "seconds", "converged points/s", "ms/point"):
             table.add_column(column, justify="right")
+        per_core_at_160 = None
         for panels in PANEL_COUNTS:
             result = run_sweeps(panels=panels, threads=threads, repeat=repeat)
+            if panels == 160:
+                per_core_at_160 = result.converged_per_second / threads
             table.add_row(
                 str(panels),
                 str(result.points),
@@ -58,3 +64,9 @@ def bench_viscous(
                 f"{result.ms_per_point:.2f}",
             )
         console.print(table)
+        if per_core_at_160 is not None:
+            met = "met" if per_core_at_160 >= VISCOUS_AIM_PER_CORE else "not met"
+            console.print(
+                f"aim: at least {VISCOUS_AIM_PER_CORE} converged points/s per core at 160 panels; "
+                f"measured {per_core_at_160:.0f} ({met}; docs/performance.md)"
+            )
