@@ -1,8 +1,11 @@
 //! Small dense linear algebra: a row-major matrix and an LU factorisation with partial pivoting.
 //!
-//! The panel systems are a few hundred unknowns, so a plain dense Doolittle LU (Golub & Van
-//! Loan, *Matrix Computations*, §3.4, partial pivoting) is fast enough and keeps the core free
-//! of external BLAS/LAPACK.
+//! The panel systems and the coupled Newton step's reduced systems are a few hundred unknowns,
+//! so a dense Doolittle LU (Golub & Van Loan, *Matrix Computations*, §3.4, partial pivoting),
+//! blocked four columns at a time with its inner loop widened to the processor's vectors
+//! (`wide_kernels`), is fast enough and keeps the core free of external BLAS/LAPACK. Every
+//! product and factorisation rounds exactly as its plain loop would, whatever the blocking and
+//! vector width, so no result depends on the machine.
 
 use crate::error::{Result, SolverError};
 
@@ -123,7 +126,8 @@ pub struct LuFactors {
 }
 
 impl LuFactors {
-    /// Factorise a square matrix with partial (row) pivoting.
+    /// Factorise a square matrix with partial (row) pivoting: columns eliminated in panels of
+    /// four, the factors bit for bit those of column-by-column elimination.
     ///
     /// Fails with `SolverError::Geometry` when a pivot vanishes: for a panel system that means
     /// coincident or degenerate panels, so the geometry is the thing to fix.
