@@ -246,7 +246,9 @@ pub(crate) fn solve_case(
 
     for iteration in 1..=settings.max_iterations {
         // 1. speeds with the current displacement, stagnation point and split.
-        let guess_split = previous_split.as_ref().map_or(ns / 2, |s| s.stagnation.node);
+        let guess_split = previous_split
+            .as_ref()
+            .map_or(ns / 2, |s| s.stagnation.node);
         let q = case.speeds(&m, guess_split);
         let stagnation = locate_stagnation(&q[..ns], &case.arc, &case.x[..ns], &case.y[..ns])?;
         let split = split_surface(stagnation, &case.arc);

@@ -13,7 +13,28 @@
 //! as in the global Newton solution of Drela & Giles, AIAA J. 25, 1987). The reduced dense
 //! system is solved by LU with partial pivoting, then δz follows by back-substitution.
 
+use std::cell::RefCell;
+
 use crate::linalg::{DenseMatrix, LuFactors};
+
+thread_local! {
+    /// The gain buffer of the last factorisation dropped on this thread, for the next one:
+    /// 1.5 MB at 160 panels that would otherwise be allocated and zeroed for every Jacobian.
+    /// Its stale contents are never read: every gain row is written before it is used.
+    static SPARE_GAIN: RefCell<Vec<f64>> = const { RefCell::new(Vec::new()) };
+}
+
+/// A buffer of `len` entries for the gain rows: the spare one when there is one (contents
+/// stale, see [`SPARE_GAIN`]), otherwise a new one.
+fn gain_buffer(len: usize) -> Vec<f64> {
+    let mut buffer = SPARE_GAIN.with(|spare| std::mem::take(&mut *spare.borrow_mut()));
+    if buffer.len() >= len {
+        buffer.truncate(len);
+    } else {
+        buffer.resize(len, 0.0);
+    }
+    buffer
+}
 
 /// Most local unknowns of a station: ln θ and its third variable, plus, at the first turbulent
 /// station of a side, the laminar momentum thickness at the transition point and the point's
@@ -169,71 +190,100 @@ impl Factorisation {
         influence: &DenseMatrix,
     ) -> Option<Self> {
         let k_total = stations.len();
-        let mut gain = vec![0.0; k_total * MAX_LOCAL * k_total];
+        let mut gain = gain_buffer(k_total * MAX_LOCAL * k_total);
         let mut complement = vec![[0.0; MAX_EQUATIONS]; k_total];
         let mut lefts = vec![[[0.0; MAX_EQUATIONS]; MAX_LOCAL]; k_total];
-        let mut reduced = DenseMatrix::zeros(k_total, k_total);
+        // The reduced matrix, row k appended by station k (not zeroed first: each row's first
+        // term is written as adding it to zero gives it).
+        let mut reduced = Vec::with_capacity(k_total * k_total);
         let mut coupling = vec![0.0; MAX_EQUATIONS * k_total];
         let gain_row = |k: usize, c: usize| (k * MAX_LOCAL + c) * k_total;
         for (k, lin) in stations.iter().enumerate() {
             let rows = lin.n_equations();
-            coupling[..rows * k_total].iter_mut().for_each(|v| *v = 0.0);
-            for p in 0..lin.count {
-                let j = lin.involved[p];
-                for r in 0..rows {
-                    let row = &mut coupling[r * k_total..(r + 1) * k_total];
-                    row[j] += lin.d_mass[p][r];
+            for r in 0..rows {
+                let row = &mut coupling[r * k_total..(r + 1) * k_total];
+                for p in 0..lin.count {
+                    let j = lin.involved[p];
                     let ds = lin.d_speed[p][r];
+                    if p == 0 {
+                        // The station's own terms, written over the last station's row as
+                        // adding them to zero gives them.
+                        if ds != 0.0 {
+                            for (v, d) in row.iter_mut().zip(influence.row(j)) {
+                                *v = 0.0 + ds * d;
+                            }
+                            row[j] = (0.0 + lin.d_mass[p][r]) + ds * influence.get(j, j);
+                        } else {
+                            row.fill(0.0);
+                            row[j] = 0.0 + lin.d_mass[p][r];
+                        }
+                        continue;
+                    }
+                    row[j] += lin.d_mass[p][r];
                     if ds != 0.0 {
                         for (v, d) in row.iter_mut().zip(influence.row(j)) {
                             *v += ds * d;
                         }
                     }
-                    if p >= 1 {
-                        for c in 0..SHARED_LOCAL {
-                            let e = lin.d_local[p][r][c];
-                            if e == 0.0 {
-                                continue;
-                            }
-                            let start = gain_row(j, c);
-                            let g = &gain[start..start + k_total];
-                            for (v, gv) in row.iter_mut().zip(g) {
-                                *v += e * gv;
-                            }
+                    for c in 0..SHARED_LOCAL {
+                        let e = lin.d_local[p][r][c];
+                        if e == 0.0 {
+                            continue;
+                        }
+                        let start = gain_row(j, c);
+                        let g = &gain[start..start + k_total];
+                        for (v, gv) in row.iter_mut().zip(g) {
+                            *v += e * gv;
                         }
                     }
                 }
             }
             let (q, left) = complement_and_left_inverse(&lin.d_local[0], lin.n_local)?;
             // Reduced equation: q·(rhs − M δm) = 0.
-            {
-                let row = reduced.row_mut(k);
-                for r in 0..rows {
-                    let m_row = &coupling[r * k_total..(r + 1) * k_total];
-                    for (v, mv) in row.iter_mut().zip(m_row) {
-                        *v += q[r] * mv;
-                    }
+            reduced.extend(coupling[..k_total].iter().map(|mv| 0.0 + q[0] * mv));
+            let row = &mut reduced[k * k_total..];
+            for r in 1..rows {
+                let m_row = &coupling[r * k_total..(r + 1) * k_total];
+                for (v, mv) in row.iter_mut().zip(m_row) {
+                    *v += q[r] * mv;
                 }
             }
-            // δz = L (rhs − M δm): the gain part.
+            // δz = L (rhs − M δm): the gain part. (The row's first term is written over the
+            // buffer's stale contents as 0 − l·m, what subtracting it from zero gives.)
             for c in 0..lin.n_local {
                 let start = gain_row(k, c);
                 let g = &mut gain[start..start + k_total];
+                let mut written = false;
                 for r in 0..rows {
                     let l = left[c][r];
                     if l == 0.0 {
                         continue;
                     }
                     let m_row = &coupling[r * k_total..(r + 1) * k_total];
-                    for (gv, mv) in g.iter_mut().zip(m_row) {
-                        *gv -= l * mv;
+                    if written {
+                        for (gv, mv) in g.iter_mut().zip(m_row) {
+                            *gv -= l * mv;
+                        }
+                    } else {
+                        for (gv, mv) in g.iter_mut().zip(m_row) {
+                            *gv = 0.0 - l * mv;
+                        }
+                        written = true;
                     }
+                }
+                if !written {
+                    g.fill(0.0);
                 }
             }
             complement[k] = q;
             lefts[k] = left;
         }
-        let reduced = LuFactors::new(reduced).ok()?;
+        let reduced = LuFactors::new(DenseMatrix {
+            rows: k_total,
+            cols: k_total,
+            data: reduced,
+        })
+        .ok()?;
         Some(Factorisation {
             k_total,
             gain,
@@ -302,6 +352,19 @@ impl Factorisation {
             }
         }
         Some(Corrections { local, mass })
+    }
+}
+
+impl Drop for Factorisation {
+    /// Leaves the gain buffer for the next factorisation on this thread ([`SPARE_GAIN`]).
+    fn drop(&mut self) {
+        let gain = std::mem::take(&mut self.gain);
+        SPARE_GAIN.with(|spare| {
+            let mut spare = spare.borrow_mut();
+            if gain.capacity() > spare.capacity() {
+                *spare = gain;
+            }
+        });
     }
 }
 
