@@ -68,6 +68,9 @@ pub struct PanelSolver {
     /// Response of the sheet unknowns to each surface node's mass defect (the surface columns
     /// of the mass-defect influence, which do not depend on the wake), built on first use.
     pub(crate) surface_mass_response: std::sync::OnceLock<crate::linalg::DenseMatrix>,
+    /// Normal velocity at each condition point per unit source on each surface panel (the body
+    /// columns of the source-normal rows, which do not depend on the wake), built on first use.
+    pub(crate) surface_source_normal: std::sync::OnceLock<crate::linalg::DenseMatrix>,
 }
 
 /// Result of one inviscid solve at one angle of attack.
@@ -154,6 +157,7 @@ impl PanelSolver {
             chord,
             quarter_chord,
             surface_mass_response: std::sync::OnceLock::new(),
+            surface_source_normal: std::sync::OnceLock::new(),
         })
     }
 

@@ -211,33 +211,49 @@ impl PanelSolver {
         );
         let mut rows = DenseMatrix::zeros(n + 1, np + nw);
         let mut scratch = Scratch::default();
-        let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
+        let body = self.surface_source_normal.get_or_init(|| {
+            let mut body = DenseMatrix::zeros(n + 1, np);
+            let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
+            for point in self.condition_points() {
+                let on_body = Coefficients {
+                    vortex: None,
+                    source: Some((&mut su, &mut sv)),
+                };
+                influence_at(
+                    &self.panels,
+                    point.x,
+                    point.y,
+                    point.on_panel,
+                    &mut scratch,
+                    on_body,
+                );
+                let (nx, ny) = point.direction;
+                let row = body.row_mut(point.row);
+                for k in 0..np {
+                    row[k] = su[k] * nx + sv[k] * ny;
+                }
+                if let Some(i) = point.on_panel {
+                    row[i] -= 0.5;
+                }
+            }
+            body
+        });
         let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
         for point in self.condition_points() {
             let ConditionPoint {
                 x: px,
                 y: py,
                 direction: (nx, ny),
-                on_panel: on,
                 row: row_index,
+                ..
             } = point;
-            let on_body = Coefficients {
-                vortex: None,
-                source: Some((&mut su, &mut sv)),
-            };
-            influence_at(&self.panels, px, py, on, &mut scratch, on_body);
             let on_wake = Coefficients {
                 vortex: None,
                 source: Some((&mut wu, &mut wv)),
             };
             influence_at(&wake.panels, px, py, None, &mut scratch, on_wake);
             let row = rows.row_mut(row_index);
-            for k in 0..np {
-                row[k] = su[k] * nx + sv[k] * ny;
-            }
-            if let Some(i) = on {
-                row[i] -= 0.5;
-            }
+            row[..np].copy_from_slice(body.row(row_index));
             for k in 0..nw {
                 row[np + k] = wu[k] * nx + wv[k] * ny;
             }
