@@ -187,6 +187,66 @@ impl LuFactors {
         }
     }
 
+    /// Solve `A·x = b` in place for every row `b` of `rhs` (each row becomes its `x`). Four
+    /// rows go through the substitutions together, so each factor entry is loaded once for
+    /// four sums; each sum is still formed in the order [`Self::solve_in_place`] forms it, so
+    /// every row gets the same bits as solved alone.
+    pub fn solve_rows_in_place(&self, rhs: &mut DenseMatrix) {
+        let n = self.n;
+        assert_eq!(
+            rhs.cols, n,
+            "LU solve: right-hand sides have the wrong length"
+        );
+        if n == 0 {
+            return;
+        }
+        // The value an empty `Iterator::sum` starts from, so that the sums below round
+        // exactly as `solve_in_place`'s do.
+        let start: f64 = std::iter::empty::<f64>().sum();
+        let mut blocks = rhs.data.chunks_exact_mut(4 * n);
+        for block in &mut blocks {
+            let (b0, rest) = block.split_at_mut(n);
+            let (b1, rest) = rest.split_at_mut(n);
+            let (b2, b3) = rest.split_at_mut(n);
+            let mut b = [b0, b1, b2, b3];
+            for k in 0..n {
+                let p = self.pivots[k];
+                if p != k {
+                    for column in b.iter_mut() {
+                        column.swap(k, p);
+                    }
+                }
+            }
+            for r in 1..n {
+                let row = &self.lu[r * n..r * n + r];
+                let mut s = [start; 4];
+                for (c, &l) in row.iter().enumerate() {
+                    for (sum, column) in s.iter_mut().zip(b.iter()) {
+                        *sum += l * column[c];
+                    }
+                }
+                for (sum, column) in s.iter().zip(b.iter_mut()) {
+                    column[r] -= sum;
+                }
+            }
+            for r in (0..n).rev() {
+                let row = &self.lu[r * n..(r + 1) * n];
+                let mut s = [start; 4];
+                for (c, &u) in row.iter().enumerate().skip(r + 1) {
+                    for (sum, column) in s.iter_mut().zip(b.iter()) {
+                        *sum += u * column[c];
+                    }
+                }
+                for (sum, column) in s.iter().zip(b.iter_mut()) {
+                    column[r] = (column[r] - sum) / row[r];
+                }
+            }
+        }
+        for b in blocks.into_remainder().chunks_exact_mut(n) {
+            self.solve_in_place(b);
+        }
+    }
+
     /// Solve `A·x = b`, returning `x`.
     pub fn solve(&self, b: &[f64]) -> Vec<f64> {
         let mut x = b.to_vec();
@@ -358,6 +418,39 @@ mod tests {
             assert_eq!(lu.pivots, expect_pivots, "pivots, n = {n}");
             for (k, (a, b)) in lu.lu.iter().zip(&expect).enumerate() {
                 assert_eq!(a.to_bits(), b.to_bits(), "entry {k}, n = {n}: {a} vs {b}");
+            }
+        }
+    }
+
+    #[test]
+    fn right_hand_sides_solved_together_get_the_bits_of_each_solved_alone() {
+        let value = |k: u64| {
+            let mut z = k.wrapping_add(0x9e37_79b9_7f4a_7c15);
+            z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
+            z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
+            ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64 - 0.5
+        };
+        for n in [1usize, 2, 5, 13, 67] {
+            let lu = LuFactors::new(DenseMatrix {
+                rows: n,
+                cols: n,
+                data: (0..(n * n) as u64).map(value).collect(),
+            })
+            .unwrap();
+            for count in 1..=9 {
+                let data: Vec<f64> = (0..(count * n) as u64).map(|k| value(k + 7919)).collect();
+                let mut together = DenseMatrix {
+                    rows: count,
+                    cols: n,
+                    data: data.clone(),
+                };
+                lu.solve_rows_in_place(&mut together);
+                for (row, b) in data.chunks_exact(n).enumerate() {
+                    let alone = lu.solve(b);
+                    for (a, t) in alone.iter().zip(together.row(row)) {
+                        assert_eq!(a.to_bits(), t.to_bits(), "n = {n}, {count} rows, row {row}");
+                    }
+                }
             }
         }
     }

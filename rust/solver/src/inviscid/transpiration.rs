@@ -65,6 +65,13 @@ pub struct WakeOperators {
     pub(super) vortex: DenseMatrix,
     /// Wake-node tangential speed per unit σ on each surface then wake panel.
     pub(super) source: DenseMatrix,
+    /// Velocity (u, v) at each condition point (by its system row) per unit σ on each wake
+    /// panel: the source-normal rows' wake part, kept for the wake-vorticity operator, whose
+    /// right-hand sides need the same velocities turned by 90°.
+    pub(super) condition_wake_source: (DenseMatrix, DenseMatrix),
+    /// Velocity (u, v) at each wake point (`WakeData::points`) per unit σ on each wake panel,
+    /// its own panel by its principal value: kept for the wake-vorticity operator likewise.
+    pub(super) wake_point_wake_source: (DenseMatrix, DenseMatrix),
 }
 
 /// A point where the panel system states a condition on the normal velocity (see
@@ -203,7 +210,8 @@ impl PanelSolver {
     /// Normal velocity at each surface collocation point per unit σ on every surface panel and
     /// then every wake panel (rows: N; the Kutta row is zero). The self term is the one-sided
     /// value −σ/2 on the fluid-free inner side, which keeps the interior at rest.
-    fn source_normal_rows(&self, wake: &WakeData) -> DenseMatrix {
+    /// Also returns the velocities (u, v) per unit σ of each wake panel at each condition point.
+    fn source_normal_rows(&self, wake: &WakeData) -> (DenseMatrix, (DenseMatrix, DenseMatrix)) {
         let (n, np, nw) = (
             self.panels.nodes(),
             self.panels.count(),
@@ -238,7 +246,8 @@ impl PanelSolver {
             }
             body
         });
-        let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
+        let mut wake_u = DenseMatrix::zeros(n + 1, nw);
+        let mut wake_v = DenseMatrix::zeros(n + 1, nw);
         for point in self.condition_points() {
             let ConditionPoint {
                 x: px,
@@ -247,24 +256,30 @@ impl PanelSolver {
                 row: row_index,
                 ..
             } = point;
+            let (wu, wv) = (wake_u.row_mut(row_index), wake_v.row_mut(row_index));
             let on_wake = Coefficients {
                 vortex: None,
-                source: Some((&mut wu, &mut wv)),
+                source: Some((wu, wv)),
             };
             influence_at(&wake.panels, px, py, None, &mut scratch, on_wake);
+            let (wu, wv) = (wake_u.row(row_index), wake_v.row(row_index));
             let row = rows.row_mut(row_index);
             row[..np].copy_from_slice(body.row(row_index));
             for k in 0..nw {
                 row[np + k] = wu[k] * nx + wv[k] * ny;
             }
         }
-        rows
+        (rows, (wake_u, wake_v))
     }
 
     /// Tangential velocity (along the wake panel) at each wake node, averaged over its cell, per
     /// unit γ at each surface node (`vortex`, Nw_nodes × (N + 1)) and per unit σ on each surface
     /// then wake panel (`source`, Nw_nodes × (Np + Nw)).
-    pub(super) fn wake_tangential_rows(&self, wake: &WakeData) -> (DenseMatrix, DenseMatrix) {
+    /// Also returns the velocities (u, v) per unit σ of each wake panel at each wake point.
+    pub(super) fn wake_tangential_rows(
+        &self,
+        wake: &WakeData,
+    ) -> (DenseMatrix, DenseMatrix, (DenseMatrix, DenseMatrix)) {
         let (n, np, nw) = (
             self.panels.nodes(),
             self.panels.count(),
@@ -276,7 +291,8 @@ impl PanelSolver {
         let mut scratch = Scratch::default();
         let (mut vu, mut vv) = (vec![0.0; n], vec![0.0; n]);
         let (mut su, mut sv) = (vec![0.0; np], vec![0.0; np]);
-        let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
+        let mut wake_u = DenseMatrix::zeros(count, nw);
+        let mut wake_v = DenseMatrix::zeros(count, nw);
         for (p, &(px, py, k)) in wake.points.iter().enumerate() {
             let (tx, ty) = (wake.panels.tx[k], wake.panels.ty[k]);
             let body = Coefficients {
@@ -286,9 +302,10 @@ impl PanelSolver {
             influence_at(&self.panels, px, py, None, &mut scratch, body);
             let own = Coefficients {
                 vortex: None,
-                source: Some((&mut wu, &mut wv)),
+                source: Some((wake_u.row_mut(p), wake_v.row_mut(p))),
             };
             influence_at(&wake.panels, px, py, Some(k), &mut scratch, own);
+            let (wu, wv) = (wake_u.row(p), wake_v.row(p));
             for j in 0..n {
                 vortex.set(p, j, vu[j] * tx + vv[j] * ty);
             }
@@ -305,6 +322,7 @@ impl PanelSolver {
         (
             wake.to_node_rows(&vortex, n + 1),
             wake.to_node_rows(&source, np + nw),
+            (wake_u, wake_v),
         )
     }
 
@@ -347,13 +365,15 @@ impl PanelSolver {
     /// The influence data of `wake` ([`WakeOperators`]), for the `*_with` entries below.
     pub fn wake_operators(&self, wake: &Wake) -> WakeOperators {
         let data = WakeData::new(wake);
-        let normal = self.source_normal_rows(&data);
-        let (vortex, source) = self.wake_tangential_rows(&data);
+        let (normal, condition_wake_source) = self.source_normal_rows(&data);
+        let (vortex, source, wake_point_wake_source) = self.wake_tangential_rows(&data);
         WakeOperators {
             data,
             normal,
             vortex,
             source,
+            condition_wake_source,
+            wake_point_wake_source,
         }
     }
 
@@ -516,14 +536,25 @@ impl PanelSolver {
             }
             columns
         });
+        // The wake columns' right-hand sides, one per row, solved together.
+        let mut wake_responses = DenseMatrix::zeros(total - n, unknowns);
+        for j in n..total {
+            let rhs = wake_responses.row_mut(j - n);
+            for (k, w) in column(j) {
+                if w != 0.0 {
+                    for (i, r) in rhs.iter_mut().enumerate() {
+                        *r -= normal.get(i, k) * w;
+                    }
+                }
+            }
+        }
+        self.lu.solve_rows_in_place(&mut wake_responses);
         let mut d_gamma = DenseMatrix::zeros(unknowns, total);
         for j in 0..total {
-            let own;
             let values = if j < n {
                 surface.row(j)
             } else {
-                own = response(j);
-                &own[..]
+                wake_responses.row(j - n)
             };
             for (i, &v) in values.iter().enumerate() {
                 d_gamma.set(i, j, v);

@@ -16,7 +16,6 @@
 //! the free-stream direction (κ > 0 at positive lift), its upper side runs slower than its lower
 //! side and the lift falls.
 
-use super::influence::{influence_at, Coefficients, Scratch};
 use super::transpiration::WakeOperators;
 use super::{PanelSolver, Wake};
 use crate::linalg::DenseMatrix;
@@ -96,24 +95,17 @@ impl PanelSolver {
         // point and at the interior probe. A uniform clockwise vortex panel induces the
         // velocity of the same source panel turned clockwise by 90°: (u, v)_vortex = (v, −u)_source.
         let mut rhs = DenseMatrix::zeros(nw, n + 1);
-        let mut scratch = Scratch::default();
-        let (mut wu, mut wv) = (vec![0.0; nw], vec![0.0; nw]);
+        let (wake_u, wake_v) = &ops.condition_wake_source;
         for point in self.condition_points() {
-            let (px, py, (nx, ny), row_index) = (point.x, point.y, point.direction, point.row);
-            let coefficients = Coefficients {
-                vortex: None,
-                source: Some((&mut wu, &mut wv)),
-            };
-            influence_at(&data.panels, px, py, None, &mut scratch, coefficients);
+            let ((nx, ny), row_index) = (point.direction, point.row);
+            let (wu, wv) = (wake_u.row(row_index), wake_v.row(row_index));
             for k in 0..nw {
                 rhs.set(k, row_index, -(wv[k] * nx - wu[k] * ny));
             }
         }
         // Kutta row (index N − 1): upper minus lower trailing-edge speed = the first panel's jump.
         rhs.set(0, n - 1, 1.0);
-        for k in 0..nw {
-            self.lu.solve_in_place(rhs.row_mut(k));
-        }
+        self.lu.solve_rows_in_place(&mut rhs);
         for k in 0..nw {
             for i in 0..n {
                 out.set(i, k, rhs.get(k, i));
@@ -123,13 +115,10 @@ impl PanelSolver {
         // (on its own panel the principal value, the mean of the two sides, is zero).
         let vortex = &ops.vortex;
         let mut direct = DenseMatrix::zeros(data.points.len(), nw);
-        for (p, &(px, py, own)) in data.points.iter().enumerate() {
+        let (point_u, point_v) = &ops.wake_point_wake_source;
+        for (p, &(_, _, own)) in data.points.iter().enumerate() {
             let (tx, ty) = (data.panels.tx[own], data.panels.ty[own]);
-            let coefficients = Coefficients {
-                vortex: None,
-                source: Some((&mut wu, &mut wv)),
-            };
-            influence_at(&data.panels, px, py, Some(own), &mut scratch, coefficients);
+            let (wu, wv) = (point_u.row(p), point_v.row(p));
             for k in 0..nw {
                 direct.set(p, k, tx * wv[k] - ty * wu[k]);
             }
