@@ -64,21 +64,28 @@ impl DenseMatrix {
 
     /// Matrix–vector product `A·x` (`x.len()` must equal `cols`).
     pub fn matvec(&self, x: &[f64]) -> Vec<f64> {
+        self.matvec_rows(x, 0..self.rows)
+    }
+
+    /// The entries `rows` of `A·x`: each the same bits as in [`Self::matvec`] (every row is
+    /// summed on its own, in column order).
+    pub fn matvec_rows(&self, x: &[f64], rows: std::ops::Range<usize>) -> Vec<f64> {
         assert_eq!(
             x.len(),
             self.cols,
             "matvec: vector length must equal the column count"
         );
+        assert!(rows.end <= self.rows, "matvec: rows beyond the matrix");
         // Rows in blocks of eight, each row summed in column order as a plain running sum
         // would (the same rounding, so the same results), but eight rows at once: one running
         // sum makes every addition wait for the one before it (floating-point addition is not
         // reassociated), and independent sums hide that latency.
         let n = self.cols;
         if n == 0 {
-            return vec![-0.0; self.rows];
+            return vec![-0.0; rows.len()];
         }
-        let mut y = Vec::with_capacity(self.rows);
-        let mut blocks = self.data.chunks_exact(8 * n);
+        let mut y = Vec::with_capacity(rows.len());
+        let mut blocks = self.data[rows.start * n..rows.end * n].chunks_exact(8 * n);
         for block in &mut blocks {
             let mut s = [-0.0f64; 8];
             // (Rows and x zipped, so that no element access needs a bounds check.)

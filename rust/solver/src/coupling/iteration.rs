@@ -278,7 +278,9 @@ pub(crate) fn solve_case(
         finite &= store_defect(&mut m_new, &split.lower.nodes, &lower);
 
         // ... then the wake, with the new surface defects (Gauss–Seidel).
-        let q_wake = case.speeds(&m_new, stag);
+        // (Only the wake nodes' speeds are needed: the surface entries are left NaN.)
+        let mut q_wake = vec![f64::NAN; ns];
+        q_wake.extend(case.speeds_from(&m_new, stag, ns));
         let wake_in = side_input(case, &wake_side, &q_wake, &m_new, stag, cap);
         let (Some(upper_te), Some(lower_te)) = (upper.stations.last(), lower.stations.last())
         else {

@@ -160,13 +160,20 @@ impl CaseModel {
     /// Speeds `q` (coupling convention) induced by the mass defect `m` (boundary-layer sense)
     /// on top of the inviscid ones: q = q_inv + D·m.
     pub fn speeds(&self, m: &[f64], stagnation_node: usize) -> Vec<f64> {
+        self.speeds_from(m, stagnation_node, 0)
+    }
+
+    /// The speeds of [`Self::speeds`] of the nodes from `first_node` on only (the same bits).
+    pub fn speeds_from(&self, m: &[f64], stagnation_node: usize, first_node: usize) -> Vec<f64> {
         let signed: Vec<f64> = m
             .iter()
             .enumerate()
             .map(|(j, &v)| v * self.column_sign(j, stagnation_node))
             .collect();
-        let induced = self.influence.matvec(&signed);
-        self.q_inviscid
+        let induced = self
+            .influence
+            .matvec_rows(&signed, first_node..self.influence.rows);
+        self.q_inviscid[first_node..]
             .iter()
             .zip(induced)
             .map(|(a, b)| a + b)
