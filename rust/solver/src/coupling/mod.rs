@@ -13,6 +13,7 @@
 
 mod anderson;
 mod attempts;
+mod continuation;
 mod flat_plate;
 mod forces;
 mod iteration;

@@ -7,13 +7,15 @@ use crate::geometry::Section;
 
 use crate::inviscid::compressibility::{critical_cp, karman_tsien_cp as karman_tsien};
 
-use super::attempts::{first_order_wake_solution, solve_angle};
+use super::continuation::{
+    approach_from_zero, first_order_with_continuation, solve_with_continuation,
+    solve_with_continuation_or_first_order, warm_newton_with_continuation, SweepFailures,
+};
 use super::forces::{
     far_wake_drag, friction_drag, integrate_pressure, squire_young, wetted_pressure_drag,
 };
 use super::iteration::{CoupledSolution, WarmStart};
 use super::model::{CaseModel, SectionModel};
-use super::newton::CoupledProblem;
 use super::settings::ViscousSettings;
 use super::stagnation::{x_at_arc_length, SideNodes};
 use super::{StationRegime, StationRow, StationSide, ViscousRow};
@@ -25,111 +27,6 @@ pub struct ViscousAnalysis {
     pub row: ViscousRow,
     /// Upper stations (stagnation to trailing edge), lower stations, then wake stations.
     pub stations: Vec<StationRow>,
-}
-
-/// Smallest angle step worth subdividing when a warm start fails, degrees.
-const MIN_CONTINUATION_STEP_DEG: f64 = 0.2;
-/// Levels of step halving tried after a failed warm start.
-const CONTINUATION_LEVELS: usize = 2;
-
-/// Solve `alpha_deg` from the converged neighbour `warm` = (angle, mass defect); when that
-/// fails, approach it through intermediate angles (the step halved, up to two levels), each
-/// warm-started from the last converged one: continuation in α.
-pub(crate) fn solve_with_continuation(
-    section: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: Option<&(f64, WarmStart)>,
-) -> Option<(CaseModel, CoupledSolution)> {
-    let first = solve_angle(section, alpha_deg, settings, warm.map(|w| &w.1));
-    match warm {
-        Some(w) => continuation(alpha_deg, w.clone(), first, |a, start| {
-            solve_angle(section, a, settings, Some(start))
-        }),
-        None => first,
-    }
-}
-
-/// Result of one attempt at one angle.
-type Attempt = Option<(CaseModel, CoupledSolution)>;
-
-/// The first-order-wake solution at `alpha_deg` ([`first_order_wake_solution`]) from `warm` =
-/// (angle, state), with the continuation in α of [`continuation`]; only a converged one.
-fn first_order_with_continuation(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: Option<&(f64, WarmStart)>,
-) -> Attempt {
-    let attempt = |alpha: f64, start: Option<&WarmStart>| -> Attempt {
-        let case = CaseModel::new(model, alpha, settings).ok()?;
-        let solution = first_order_wake_solution(&case, settings, start)?;
-        Some((case, solution))
-    };
-    let first = attempt(alpha_deg, warm.map(|w| &w.1));
-    match warm {
-        Some(w) => continuation(alpha_deg, w.clone(), first, |a, start| {
-            attempt(a, Some(start))
-        }),
-        None => first,
-    }
-    .filter(|(_, s)| s.converged)
-}
-
-/// [`solve_with_continuation`], and where that converges nothing, the first-order-wake
-/// solution from the same warm start: for the single-angle entries (stations, target cl) the
-/// same attempts, continuation and last resort a sweep has.
-pub(crate) fn solve_with_continuation_or_first_order(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: Option<&(f64, WarmStart)>,
-) -> Attempt {
-    let solved = solve_with_continuation(model, alpha_deg, settings, warm);
-    if solved.as_ref().is_some_and(|(_, s)| s.converged) {
-        return solved;
-    }
-    first_order_with_continuation(model, alpha_deg, settings, warm).or(solved)
-}
-
-/// Continuation in α after the attempt `first` at `alpha_deg` from `warm` = (angle, start):
-/// when `first` did not converge, the step from the warm angle is halved (up to two levels)
-/// and the intermediate angles solved by `attempt`, each from the last converged one, then the
-/// target again. `first` is returned when that does not converge either.
-fn continuation(
-    alpha_deg: f64,
-    warm: (f64, WarmStart),
-    first: Attempt,
-    attempt: impl Fn(f64, &WarmStart) -> Attempt,
-) -> Attempt {
-    if first.as_ref().is_some_and(|(_, s)| s.converged) {
-        return first;
-    }
-    let mut start = warm;
-    for level in 1..=CONTINUATION_LEVELS {
-        let step = (alpha_deg - start.0) / (1 << level) as f64;
-        if step.abs() < MIN_CONTINUATION_STEP_DEG {
-            break;
-        }
-        let mut reached = true;
-        for k in 1..(1 << level) {
-            let a = start.0 + step * k as f64;
-            match attempt(a, &start.1) {
-                Some((_, s)) if s.converged => start = (a, s.warm_start()),
-                _ => {
-                    reached = false;
-                    break;
-                }
-            }
-        }
-        if reached {
-            let again = attempt(alpha_deg, &start.1);
-            if again.as_ref().is_some_and(|(_, s)| s.converged) {
-                return again;
-            }
-        }
-    }
-    first
 }
 
 /// Viscous polar of `section` at every angle in `alpha_deg` (rows in the given order).
@@ -163,6 +60,8 @@ pub(crate) fn sweep(
     }) else {
         return Vec::new();
     };
+    // Every attempt of the sweep known to fail, so that no continuation repeats one.
+    let failures = SweepFailures::default();
     let upward: Vec<usize> = order[start..].to_vec();
     let downward: Vec<usize> = order[..start].iter().rev().copied().collect();
     let mut start_defect: Option<(f64, WarmStart)> = None;
@@ -177,12 +76,14 @@ pub(crate) fn sweep(
         };
         for (k, &index) in indices.iter().enumerate() {
             let alpha = alpha_deg[index];
-            let mut solved = solve_with_continuation(model, alpha, settings, warm.as_ref());
+            let mut solved =
+                solve_with_continuation(model, alpha, settings, warm.as_ref(), &failures);
             if pass == 0 && k == 0 && !solved.as_ref().is_some_and(|(_, s)| s.converged) {
                 // A sweep that starts away from 0° (its angle nearest 0° failed cold): approach
                 // that angle from 0° as a sweep from 0° would.
                 if let Some(approach) = approach_from_zero(model, alpha, settings) {
-                    let again = solve_with_continuation(model, alpha, settings, Some(&approach));
+                    let again =
+                        solve_with_continuation(model, alpha, settings, Some(&approach), &failures);
                     if again.as_ref().is_some_and(|(_, s)| s.converged) {
                         solved = again;
                     }
@@ -210,6 +111,7 @@ pub(crate) fn sweep(
         alpha_deg,
         settings,
         order: &order,
+        failures: &failures,
     };
     grid.repair(&mut rows, &mut warm_of);
     grid.beyond_the_ends(&mut rows, &warm_of);
@@ -228,6 +130,7 @@ struct SweepGrid<'a> {
     alpha_deg: &'a [f64],
     settings: &'a ViscousSettings,
     order: &'a [usize],
+    failures: &'a SweepFailures,
 }
 
 impl<'a> SweepGrid<'a> {
@@ -266,15 +169,20 @@ impl<'a> SweepGrid<'a> {
             };
             let (a_end, a_inner) = (alpha_deg[end], alpha_deg[inner]);
             let beyond = a_end + (a_end - a_inner);
-            let Some((_, helper)) =
-                solve_with_continuation(model, beyond, settings, Some(&(a_inner, warm)))
-                    .filter(|(_, s)| s.converged)
-            else {
+            let Some((_, helper)) = solve_with_continuation(
+                model,
+                beyond,
+                settings,
+                Some(&(a_inner, warm)),
+                self.failures,
+            )
+            .filter(|(_, s)| s.converged) else {
                 continue;
             };
-            if let Some((case, solution)) =
-                warm_newton_with_continuation(model, a_end, settings, (beyond, helper.warm_start()))
-            {
+            if let Some((case, solution)) = {
+                let warm = (beyond, helper.warm_start());
+                warm_newton_with_continuation(model, a_end, settings, warm, self.failures)
+            } {
                 if solution.converged {
                     rows[end] = Some(polar_row(&case, &solution, settings));
                 }
@@ -316,6 +224,7 @@ impl<'a> SweepGrid<'a> {
                         alpha,
                         settings,
                         (alpha_deg[nb], state),
+                        self.failures,
                     ) {
                         if solution.converged {
                             rows[index] = Some(polar_row(&case, &solution, settings));
@@ -354,58 +263,17 @@ impl<'a> SweepGrid<'a> {
             .into_iter()
             .flatten()
             .find_map(|p| warm_of[order[p]].clone().map(|w| (alpha_deg[order[p]], w)));
-            if let Some((case, solution)) =
-                first_order_with_continuation(model, alpha, settings, neighbour.as_ref())
-            {
+            if let Some((case, solution)) = first_order_with_continuation(
+                model,
+                alpha,
+                settings,
+                neighbour.as_ref(),
+                self.failures,
+            ) {
                 rows[index] = Some(polar_row(&case, &solution, settings));
             }
         }
     }
-}
-
-/// The Newton iteration at `alpha_deg` from the iterate `warm` = (angle, state) only, with
-/// the continuation of [`continuation`].
-fn warm_newton_with_continuation(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: (f64, WarmStart),
-) -> Attempt {
-    let attempt = |alpha: f64, start: &WarmStart| -> Attempt {
-        let case = CaseModel::new(model, alpha, settings).ok()?;
-        let solution = CoupledProblem::new(&case, settings)
-            .solve(start.state.as_ref()?)
-            .ok()?;
-        Some((case, solution))
-    };
-    let first = attempt(alpha_deg, &warm.1);
-    continuation(alpha_deg, warm, first, attempt)
-}
-
-/// Largest step between the intermediate angles by which an angle away from 0° is approached
-/// from 0° (degrees).
-const APPROACH_STEP_DEG: f64 = 2.0;
-
-/// The last converged of the angles 0°, … (steps of at most `APPROACH_STEP_DEG`) short of
-/// `alpha_deg`, each warm-started from the one before: the warm start (angle, state) with which
-/// an angle far from 0° is solved as a sweep from 0° would reach it. None when none converges
-/// or `alpha_deg` is within one step of 0°.
-fn approach_from_zero(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-) -> Option<(f64, WarmStart)> {
-    let steps = (alpha_deg.abs() / APPROACH_STEP_DEG).ceil() as usize;
-    let mut warm: Option<(f64, WarmStart)> = None;
-    for k in 0..steps {
-        let a = alpha_deg * k as f64 / steps as f64;
-        if let Some((_, s)) = solve_angle(model, a, settings, warm.as_ref().map(|w| &w.1)) {
-            if s.converged {
-                warm = Some((a, s.warm_start()));
-            }
-        }
-    }
-    warm
 }
 
 /// The polar row and stations of one angle. Angles away from 0° are approached through a
@@ -418,7 +286,14 @@ pub fn boundary_layer_stations(
     settings.validate()?;
     let model = SectionModel::new(section, settings)?;
     let warm = approach_from_zero(&model, alpha_deg, settings);
-    match solve_with_continuation_or_first_order(&model, alpha_deg, settings, warm.as_ref()) {
+    let failures = SweepFailures::default();
+    match solve_with_continuation_or_first_order(
+        &model,
+        alpha_deg,
+        settings,
+        warm.as_ref(),
+        &failures,
+    ) {
         Some((case, solution)) => Ok(ViscousAnalysis {
             row: polar_row(&case, &solution, settings),
             stations: stations(&case, &solution),

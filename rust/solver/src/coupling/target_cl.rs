@@ -3,9 +3,10 @@
 use crate::error::{Result, SolverError};
 use crate::geometry::Section;
 
+use super::continuation::{solve_with_continuation_or_first_order, SweepFailures};
 use super::model::SectionModel;
 use super::settings::ViscousSettings;
-use super::sweep::{polar_row, solve_with_continuation_or_first_order};
+use super::sweep::polar_row;
 use super::ViscousRow;
 
 /// Largest |α| searched, degrees.
@@ -59,8 +60,16 @@ pub fn solve_for_cl(
     // its row.
     let mut short: Option<(f64, f64, ViscousRow)> = None;
     let mut past: Option<(f64, f64, ViscousRow)> = None;
+    // (Attempts known to fail, shared by the search's angles.)
+    let failures = SweepFailures::default();
     for _ in 0..40 {
-        let solved = solve_with_continuation_or_first_order(&model, alpha, settings, warm.as_ref());
+        let solved = solve_with_continuation_or_first_order(
+            &model,
+            alpha,
+            settings,
+            warm.as_ref(),
+            &failures,
+        );
         let Some((case, sol)) = solved else { break };
         let row = polar_row(&case, &sol, settings);
         if !row.converged {
