@@ -126,7 +126,13 @@ fn first_attempts(
                         start: Option<&[f64]>,
                         strategy,
                         best: &mut Option<CoupledSolution>| {
-        let Ok(first) = solve_case(case, settings, start, strategy) else {
+        // (A run made before on this section, the same in every respect, is taken as stored.)
+        let wake_nodes = case.n_total() - case.n_surface;
+        let run = || solve_case(case, settings, start, strategy);
+        let Ok(first) =
+            case.memo
+                .get_or_run(case.alpha_deg, wake_nodes, settings, start, strategy, run)
+        else {
             return false;
         };
         let first_state = NewtonState::from_coupled(&first);

@@ -225,3 +225,24 @@ pub(crate) fn approach_from_zero(
     }
     warm
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The record answers for the same angle to the bit and an equal warm start only.
+    #[test]
+    fn known_failures_match_angle_and_start_exactly() {
+        let start = |v: f64| WarmStart {
+            mass_defect: vec![v, 2.0 * v],
+            state: None,
+        };
+        let failures = KnownFailures::default();
+        failures.insert(17.0, &start(1.0));
+        assert!(failures.contains(17.0, &start(1.0)));
+        assert!(!failures.contains(17.0 + 1e-12, &start(1.0)));
+        assert!(!failures.contains(17.0, &start(1.5)));
+        failures.insert(17.0, &start(1.0));
+        assert_eq!(failures.0.borrow().len(), 1);
+    }
+}

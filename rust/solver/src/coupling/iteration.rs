@@ -81,6 +81,7 @@ const MIN_CAP_SPEED: f64 = 0.05;
 const MIXING_DEPTH: usize = 6;
 
 /// The coupled solution of one case after the outer iteration stopped.
+#[derive(Clone)]
 pub(crate) struct CoupledSolution {
     /// Surface split at the final stagnation point.
     pub split: SurfaceSplit,

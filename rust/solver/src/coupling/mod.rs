@@ -17,6 +17,7 @@ mod continuation;
 mod flat_plate;
 mod forces;
 mod iteration;
+mod memo;
 mod model;
 mod newton;
 mod reynolds_continuation;

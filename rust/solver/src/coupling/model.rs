@@ -11,7 +11,9 @@ use crate::geometry::Section;
 use crate::inviscid::{smoothed_panel_curvature, wake_node_turning, PanelSolver};
 use crate::linalg::DenseMatrix;
 
+use super::memo::QuasiSimultaneousMemo;
 use super::settings::ViscousSettings;
+use std::sync::Arc;
 
 /// Level at which the speed jump of the wake-curvature sheet saturates, in free-stream units.
 /// The thin-layer theory behind it needs κ(δ* + θ) ≪ 1; attached cases stay near 0.01–0.02
@@ -33,6 +35,8 @@ pub(crate) struct SectionModel {
     /// The same section at [`COARSE_PANELS`] panels, with its settings, when the requested
     /// count exceeds [`COARSE_START_ABOVE`].
     pub coarse: Option<Box<(SectionModel, ViscousSettings)>>,
+    /// The quasi-simultaneous runs already made on this section, shared with its cases.
+    pub memo: Arc<QuasiSimultaneousMemo>,
 }
 
 impl SectionModel {
@@ -60,7 +64,11 @@ impl SectionModel {
         } else {
             None
         };
-        Ok(SectionModel { solver, coarse })
+        Ok(SectionModel {
+            solver,
+            coarse,
+            memo: Arc::default(),
+        })
     }
 }
 
@@ -88,6 +96,8 @@ pub(crate) struct CaseModel {
     /// Turning of the wake at each wake node (positive to the left); empty when wake curvature
     /// is not modelled.
     pub wake_turning: Vec<f64>,
+    /// The section's quasi-simultaneous runs ([`SectionModel::memo`]).
+    pub memo: Arc<QuasiSimultaneousMemo>,
 }
 
 impl CaseModel {
@@ -127,6 +137,7 @@ impl CaseModel {
             influence,
             wake_vorticity,
             wake_turning,
+            memo: Arc::clone(&section.memo),
         })
     }
 
