@@ -63,6 +63,23 @@ pub(crate) struct SweepFailures {
     pub first_order: KnownFailures,
 }
 
+/// `attempt` at `alpha_deg` from `warm` = (angle, start), then, when that fails and there is a
+/// warm start, the continuation of [`continuation`] with the same attempt.
+fn attempt_with_continuation(
+    alpha_deg: f64,
+    warm: Option<&(f64, WarmStart)>,
+    failures: &KnownFailures,
+    attempt: impl Fn(f64, Option<&WarmStart>) -> Attempt,
+) -> Attempt {
+    let first = attempt(alpha_deg, warm.map(|w| &w.1));
+    match warm {
+        Some(w) => continuation(alpha_deg, w.clone(), first, failures, |a, start| {
+            attempt(a, Some(start))
+        }),
+        None => first,
+    }
+}
+
 /// Solve `alpha_deg` from the converged neighbour `warm` = (angle, mass defect); when that
 /// fails, approach it through intermediate angles (the step halved, up to two levels), each
 /// warm-started from the last converged one: continuation in α.
@@ -73,13 +90,9 @@ pub(crate) fn solve_with_continuation(
     warm: Option<&(f64, WarmStart)>,
     failures: &SweepFailures,
 ) -> Attempt {
-    let first = solve_angle(section, alpha_deg, settings, warm.map(|w| &w.1));
-    match warm {
-        Some(w) => continuation(alpha_deg, w.clone(), first, &failures.angle, |a, start| {
-            solve_angle(section, a, settings, Some(start))
-        }),
-        None => first,
-    }
+    attempt_with_continuation(alpha_deg, warm, &failures.angle, |a, start| {
+        solve_angle(section, a, settings, start)
+    })
 }
 
 /// The first-order-wake solution at `alpha_deg` ([`first_order_wake_solution`]) from `warm` =
@@ -91,22 +104,11 @@ pub(crate) fn first_order_with_continuation(
     warm: Option<&(f64, WarmStart)>,
     failures: &SweepFailures,
 ) -> Attempt {
-    let attempt = |alpha: f64, start: Option<&WarmStart>| -> Attempt {
-        let case = CaseModel::new(model, alpha, settings).ok()?;
+    attempt_with_continuation(alpha_deg, warm, &failures.first_order, |a, start| {
+        let case = CaseModel::new(model, a, settings).ok()?;
         let solution = first_order_wake_solution(&case, settings, start)?;
         Some((case, solution))
-    };
-    let first = attempt(alpha_deg, warm.map(|w| &w.1));
-    match warm {
-        Some(w) => continuation(
-            alpha_deg,
-            w.clone(),
-            first,
-            &failures.first_order,
-            |a, s| attempt(a, Some(s)),
-        ),
-        None => first,
-    }
+    })
     .filter(|(_, s)| s.converged)
 }
 
@@ -189,15 +191,13 @@ pub(crate) fn warm_newton_with_continuation(
     warm: (f64, WarmStart),
     failures: &SweepFailures,
 ) -> Attempt {
-    let attempt = |alpha: f64, start: &WarmStart| -> Attempt {
-        let case = CaseModel::new(model, alpha, settings).ok()?;
+    attempt_with_continuation(alpha_deg, Some(&warm), &failures.warm_newton, |a, start| {
+        let case = CaseModel::new(model, a, settings).ok()?;
         let solution = CoupledProblem::new(&case, settings)
-            .solve(start.state.as_ref()?)
+            .solve(start?.state.as_ref()?)
             .ok()?;
         Some((case, solution))
-    };
-    let first = attempt(alpha_deg, &warm.1);
-    continuation(alpha_deg, warm, first, &failures.warm_newton, attempt)
+    })
 }
 
 /// Largest step between the intermediate angles by which an angle away from 0° is approached
