@@ -6,10 +6,11 @@
 use super::iteration::{
     solve_case, CoupledSolution, WarmStart, CAUTIOUS, CAUTIOUS_TURBULENT_WAKE, PRIMARY, STIFF,
 };
-use super::model::{CaseModel, SectionModel, COARSE_START_ABOVE};
+use super::model::{coarse_settings, CaseModel, SectionModel, COARSE_START_ABOVE};
 use super::newton::{CoupledProblem, NewtonState};
 use super::reynolds_continuation::{continuation_wanted, reynolds_continuation};
 use super::settings::ViscousSettings;
+use std::sync::Arc;
 
 /// Outer passes of the quasi-simultaneous iteration that give the coupled Newton iteration its
 /// first iterate (from the inviscid flow, or from a neighbour's mass defect).
@@ -39,12 +40,12 @@ pub(crate) fn solve_angle(
     alpha_deg: f64,
     settings: &ViscousSettings,
     warm_start: Option<&WarmStart>,
-) -> Option<(CaseModel, CoupledSolution)> {
-    let case = CaseModel::new(section, alpha_deg, settings).ok()?;
+) -> Option<(Arc<CaseModel>, CoupledSolution)> {
+    let case = section.case(alpha_deg, settings).ok()?;
     let coarse = section
         .coarse
         .as_deref()
-        .and_then(|(coarse, coarse_settings)| coarse_start(coarse, coarse_settings, &case));
+        .and_then(|coarse| coarse_start(coarse, &coarse_settings(settings), &case));
     let solution = solve_case_model(&case, settings, warm_start, coarse.as_ref())?;
     Some((case, solution))
 }
@@ -62,7 +63,7 @@ fn coarse_start(
     coarse_settings: &ViscousSettings,
     fine: &CaseModel,
 ) -> Option<NewtonState> {
-    let case = CaseModel::new(coarse, fine.alpha_deg, coarse_settings).ok()?;
+    let case = coarse.case(fine.alpha_deg, coarse_settings).ok()?;
     let solution = solve_case_model(&case, coarse_settings, None, None)?;
     let state = solution
         .newton_state

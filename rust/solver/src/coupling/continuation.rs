@@ -11,6 +11,7 @@
 //! twelve intermediate attempts.
 
 use std::cell::RefCell;
+use std::sync::Arc;
 
 use super::attempts::{first_order_wake_solution, solve_angle};
 use super::iteration::{CoupledSolution, WarmStart};
@@ -24,7 +25,7 @@ const MIN_CONTINUATION_STEP_DEG: f64 = 0.2;
 const CONTINUATION_LEVELS: usize = 2;
 
 /// Result of one attempt at one angle.
-pub(crate) type Attempt = Option<(CaseModel, CoupledSolution)>;
+pub(crate) type Attempt = Option<(Arc<CaseModel>, CoupledSolution)>;
 
 /// The (angle, warm start) pairs from which one kind of attempt did not converge.
 #[derive(Default)]
@@ -105,7 +106,7 @@ pub(crate) fn first_order_with_continuation(
     failures: &SweepFailures,
 ) -> Attempt {
     attempt_with_continuation(alpha_deg, warm, &failures.first_order, |a, start| {
-        let case = CaseModel::new(model, a, settings).ok()?;
+        let case = model.case(a, settings).ok()?;
         let solution = first_order_wake_solution(&case, settings, start)?;
         Some((case, solution))
     })
@@ -192,7 +193,7 @@ pub(crate) fn warm_newton_with_continuation(
     failures: &SweepFailures,
 ) -> Attempt {
     attempt_with_continuation(alpha_deg, Some(&warm), &failures.warm_newton, |a, start| {
-        let case = CaseModel::new(model, a, settings).ok()?;
+        let case = model.case(a, settings).ok()?;
         let solution = CoupledProblem::new(&case, settings)
             .solve(start?.state.as_ref()?)
             .ok()?;

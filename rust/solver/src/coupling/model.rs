@@ -13,7 +13,7 @@ use crate::linalg::DenseMatrix;
 
 use super::memo::QuasiSimultaneousMemo;
 use super::settings::ViscousSettings;
-use std::sync::Arc;
+use std::sync::{Arc, Mutex};
 
 /// Level at which the speed jump of the wake-curvature sheet saturates, in free-stream units.
 /// The thin-layer theory behind it needs κ(δ* + θ) ≪ 1; attached cases stay near 0.01–0.02
@@ -29,14 +29,51 @@ pub(crate) const COARSE_START_ABOVE: usize = 200;
 /// Panel count of that coarse model.
 pub(crate) const COARSE_PANELS: usize = 160;
 
-/// The panel solver of one re-panelled section, shared by every angle of a sweep.
+/// Most angles whose cases a section keeps ([`SectionModel::case`]; about 0.4 MB each at 160
+/// panels, 1.3 MB at 320): past it, further cases are built and not kept.
+const MAX_KEPT_CASES: usize = 96;
+
+/// What a case depends on besides the section: the angle and the wake's settings.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+struct CaseKey {
+    alpha_bits: u64,
+    wake_length_bits: u64,
+    wake_nodes: usize,
+    wake_curvature: bool,
+}
+
+impl CaseKey {
+    fn new(alpha_deg: f64, settings: &ViscousSettings) -> Self {
+        CaseKey {
+            alpha_bits: alpha_deg.to_bits(),
+            wake_length_bits: settings.wake_length_chords.to_bits(),
+            wake_nodes: settings.wake_node_count(),
+            wake_curvature: settings.wake_curvature,
+        }
+    }
+}
+
+/// The panel solver of one re-panelled section, shared by every angle of a sweep (and by every
+/// flow condition of a batch at the same panel count: nothing in it depends on the Reynolds
+/// number, the transition settings or the Mach number).
 pub(crate) struct SectionModel {
     pub solver: PanelSolver,
-    /// The same section at [`COARSE_PANELS`] panels, with its settings, when the requested
-    /// count exceeds [`COARSE_START_ABOVE`].
-    pub coarse: Option<Box<(SectionModel, ViscousSettings)>>,
+    /// The same section at [`COARSE_PANELS`] panels when the requested count exceeds
+    /// [`COARSE_START_ABOVE`] (its settings: [`coarse_settings`]).
+    pub coarse: Option<Box<SectionModel>>,
     /// The quasi-simultaneous runs already made on this section, shared with its cases.
     pub memo: Arc<QuasiSimultaneousMemo>,
+    /// The cases built so far ([`SectionModel::case`]).
+    cases: Mutex<Vec<(CaseKey, Arc<CaseModel>)>>,
+}
+
+/// The settings of the coarse model's cases for a fine case's `settings`.
+pub(crate) fn coarse_settings(settings: &ViscousSettings) -> ViscousSettings {
+    ViscousSettings {
+        panels: COARSE_PANELS,
+        wake_nodes: None,
+        ..settings.clone()
+    }
 }
 
 impl SectionModel {
@@ -52,15 +89,10 @@ impl SectionModel {
             )?)?
         };
         let coarse = if settings.panels > COARSE_START_ABOVE {
-            let coarse_settings = ViscousSettings {
-                panels: COARSE_PANELS,
-                wake_nodes: None,
-                ..settings.clone()
-            };
             // (A section the coarse panelling cannot represent simply goes without.)
-            SectionModel::new(section, &coarse_settings)
+            SectionModel::new(section, &coarse_settings(settings))
                 .ok()
-                .map(|model| Box::new((model, coarse_settings)))
+                .map(Box::new)
         } else {
             None
         };
@@ -68,7 +100,35 @@ impl SectionModel {
             solver,
             coarse,
             memo: Arc::default(),
+            cases: Mutex::default(),
         })
+    }
+
+    /// The case at `alpha_deg` ([`CaseModel::new`]), built once per angle and wake settings
+    /// and then shared: a failing angle is attempted many times (continuation, repair, the
+    /// first-order-wake pass), and a batch's flow conditions share the section's angles.
+    pub fn case(&self, alpha_deg: f64, settings: &ViscousSettings) -> Result<Arc<CaseModel>> {
+        let key = CaseKey::new(alpha_deg, settings);
+        let kept = |cases: &[(CaseKey, Arc<CaseModel>)]| {
+            cases
+                .iter()
+                .find(|(k, _)| *k == key)
+                .map(|(_, c)| Arc::clone(c))
+        };
+        if let Some(case) = self.cases.lock().ok().and_then(|cases| kept(&cases)) {
+            return Ok(case);
+        }
+        let case = Arc::new(CaseModel::new(self, alpha_deg, settings)?);
+        if let Ok(mut cases) = self.cases.lock() {
+            if let Some(other) = kept(&cases) {
+                // (Built meanwhile by another thread: the same case.)
+                return Ok(other);
+            }
+            if cases.len() < MAX_KEPT_CASES {
+                cases.push((key, Arc::clone(&case)));
+            }
+        }
+        Ok(case)
     }
 }
 
