@@ -149,26 +149,28 @@ pub fn viscous_batch(
     for condition in conditions {
         condition.validate()?;
     }
-    let cases: Vec<(usize, usize)> = (0..sections.len())
-        .flat_map(|s| (0..conditions.len()).map(move |c| (s, c)))
-        .collect();
     let pool = thread_pool(if threads == 0 { None } else { Some(threads) })?;
-    let results: Vec<crate::error::Result<Vec<crate::coupling::ViscousRow>>> = pool.install(|| {
-        cases
-            .par_iter()
-            .map(|&(s, c)| {
-                crate::coupling::analyze_viscous(&sections[s], alpha_deg, &conditions[c])
-            })
-            .collect()
-    });
-    let mut rows = Vec::with_capacity(cases.len() * alpha_deg.len());
-    for (&(s, c), result) in cases.iter().zip(results) {
-        for row in result? {
-            rows.push(ViscousBatchRow {
-                section_index: s,
-                condition_index: c,
-                row,
-            });
+    // Sections in parallel, and each section's conditions in parallel sharing its panel
+    // solution and cases (`analyze_viscous_conditions`).
+    let results: Vec<Vec<crate::error::Result<Vec<crate::coupling::ViscousRow>>>> =
+        pool.install(|| {
+            sections
+                .par_iter()
+                .map(|section| {
+                    crate::coupling::analyze_viscous_conditions(section, alpha_deg, conditions)
+                })
+                .collect()
+        });
+    let mut rows = Vec::with_capacity(sections.len() * conditions.len() * alpha_deg.len());
+    for (s, per_condition) in results.into_iter().enumerate() {
+        for (c, result) in per_condition.into_iter().enumerate() {
+            for row in result? {
+                rows.push(ViscousBatchRow {
+                    section_index: s,
+                    condition_index: c,
+                    row,
+                });
+            }
         }
     }
     Ok(rows)

@@ -36,7 +36,9 @@ pub use stagnation::{
     layer_trips, locate_stagnation, split_surface, x_at_arc_length, SideNodes, StagnationPoint,
     SurfaceSplit,
 };
-pub use sweep::{analyze_viscous, boundary_layer_stations, ViscousAnalysis};
+pub use sweep::{
+    analyze_viscous, analyze_viscous_conditions, boundary_layer_stations, ViscousAnalysis,
+};
 pub use target_cl::solve_for_cl;
 
 /// One viscous operating point: the row of a polar.

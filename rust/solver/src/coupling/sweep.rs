@@ -45,6 +45,39 @@ pub fn analyze_viscous(
     Ok(sweep(&model, alpha_deg, settings))
 }
 
+/// Viscous polars of `section` at every angle in `alpha_deg` for each of `conditions` (in
+/// parallel on the current rayon pool): the rows [`analyze_viscous`] gives for each condition
+/// alone, but the conditions with the same panel count share one panel solution, one case per
+/// angle and the quasi-simultaneous runs (nothing in them depends on the Reynolds number, the
+/// transition settings or the Mach number; docs/performance.md). One result per condition; a
+/// condition that fails validation, or a section the panel method cannot use, fails alone.
+pub fn analyze_viscous_conditions(
+    section: &Section,
+    alpha_deg: &[f64],
+    conditions: &[ViscousSettings],
+) -> Vec<Result<Vec<ViscousRow>>> {
+    use rayon::prelude::*;
+    let mut panel_counts: Vec<usize> = conditions.iter().map(|c| c.panels).collect();
+    panel_counts.sort_unstable();
+    panel_counts.dedup();
+    let models: Vec<Result<SectionModel>> = panel_counts
+        .par_iter()
+        .map(|&panels| {
+            let settings = conditions.iter().find(|c| c.panels == panels);
+            SectionModel::new(section, settings.expect("a condition with these panels"))
+        })
+        .collect();
+    conditions
+        .par_iter()
+        .map(|settings| {
+            settings.validate()?;
+            let index = panel_counts.binary_search(&settings.panels).unwrap_or(0);
+            let model = models[index].as_ref().map_err(Clone::clone)?;
+            Ok(sweep(model, alpha_deg, settings))
+        })
+        .collect()
+}
+
 pub(crate) fn sweep(
     model: &SectionModel,
     alpha_deg: &[f64],

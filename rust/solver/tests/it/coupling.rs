@@ -513,3 +513,28 @@ fn a_cambered_section_at_low_reynolds_number_is_reached_by_continuation_in_reyno
         "{low:?} {higher:?}"
     );
 }
+
+#[test]
+fn conditions_sharing_a_section_give_the_rows_of_each_alone() {
+    // Our design (docs/performance.md, version 0.4.6): the conditions of a batch share the
+    // section's panel solution, its cases and its quasi-simultaneous runs, none of which
+    // depends on the Reynolds number or the transition settings, so every row is the one the
+    // condition gives alone, to the bit.
+    let section = naca::from_designation("2412", false, 200).unwrap();
+    let conditions = [
+        ViscousSettings::new(1e6),
+        ViscousSettings::new(3e6),
+        ViscousSettings {
+            trip_upper: Some(0.05),
+            trip_lower: Some(0.05),
+            ..ViscousSettings::new(1e6)
+        },
+    ];
+    let alphas = [0.0, 4.0, 15.0];
+    let shared =
+        wakerank_solver::coupling::analyze_viscous_conditions(&section, &alphas, &conditions);
+    for (settings, rows) in conditions.iter().zip(shared) {
+        let alone = analyze_viscous(&section, &alphas, settings).unwrap();
+        assert_eq!(rows.unwrap(), alone, "Re {}", settings.reynolds);
+    }
+}
