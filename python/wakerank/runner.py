@@ -102,7 +102,10 @@ def run_chunk(
     frames: list[pl.DataFrame] = []
     failed = 0
     sections: dict[str, Any] = {}
-    for case in chunk.cases:
+    # Polars of the cases still to come that the default analysis computed together with an
+    # earlier case of the same section (`_analyze_together`), by case index.
+    together: dict[int, pl.DataFrame] = {}
+    for index, case in enumerate(chunk.cases):
         if should_stop is not None and should_stop():
             raise ChunkAbandoned(chunk.chunk_id)
         spec = case.section
@@ -113,7 +116,15 @@ def run_chunk(
                 sections[spec.section_id] = spec.build()
             tick = time.perf_counter()
             try:
-                result = analyze(sections[spec.section_id], **case.condition.analysis_options())
+                if analysis_function is None and index not in together:
+                    together.update(
+                        _analyze_together(sections[spec.section_id], chunk.cases, index)
+                    )
+                result = together.pop(index, None)
+                if result is None:
+                    result = analyze(
+                        sections[spec.section_id], **case.condition.analysis_options()
+                    )
             finally:
                 core_seconds += time.perf_counter() - tick
         except WakerankError as exc:
@@ -139,6 +150,41 @@ def run_chunk(
         core_seconds=core_seconds,
         total_seconds=time.perf_counter() - started,
     )
+
+
+def _analyze_together(section: Any, cases: Sequence[Case], first: int) -> dict[int, pl.DataFrame]:
+    """The polars of case `first` and of the later cases of `cases` with the same section and
+    angle grid, computed in one call of the core, by case index; empty when there is no other
+    such case or the call fails (each case then runs alone and meets its own error).
+
+    The core shares the section's panel solution, its cases by angle and its
+    quasi-simultaneous runs between the conditions, none of which depends on the Reynolds
+    number, the transition settings or the Mach number; every row is the one the condition
+    gives alone (Rust test `conditions_sharing_a_section_give_the_rows_of_each_alone`).
+    """
+    from wakerank.viscous import analyze_batch
+
+    head = cases[first]
+    group = [
+        index
+        for index in range(first, len(cases))
+        if cases[index].section.section_id == head.section.section_id
+        and cases[index].condition.alpha_deg == head.condition.alpha_deg
+    ]
+    if len(group) < 2:
+        return {}
+    conditions = []
+    for index in group:
+        options = cases[index].condition.analysis_options()
+        options.pop("alpha_deg")
+        conditions.append(options)
+    try:
+        frame = analyze_batch([section], conditions, list(head.condition.alpha_deg), threads=1)
+    except WakerankError:
+        return {}
+    return {
+        index: frame.filter(pl.col("condition_index") == k) for k, index in enumerate(group)
+    }
 
 
 def _default_analysis() -> AnalysisFunction:

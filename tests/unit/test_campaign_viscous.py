@@ -55,6 +55,9 @@ def catalogs(tmp_path_factory):
 
 
 def test_results_do_not_depend_on_workers_or_chunk_size(catalogs):
+    # With chunks of one case every polar is computed alone; with chunks of four a section's
+    # two conditions are computed in one call of the core sharing the section's panel solution
+    # and cases (runner._analyze_together): the rows must be the same to the bit.
     one, two = (open_catalog(c).points.collect().sort(ORDER) for c in catalogs)
     assert one.height == 3 * 2 * 13
     assert one.equals(two)
