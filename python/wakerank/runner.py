@@ -102,9 +102,11 @@ def run_chunk(
     frames: list[pl.DataFrame] = []
     failed = 0
     sections: dict[str, Any] = {}
-    # Polars of the cases still to come that the default analysis computed together with an
-    # earlier case of the same section (`_analyze_together`), by case index.
+    # Polars of the cases still to come that the core's analysis computed together with an
+    # earlier case of the same section (`_analyze_together`), by case index; only when the
+    # analysis is the core's own (`wakerank.analyze`), whose rows these are.
     together: dict[int, pl.DataFrame] = {}
+    shared = _is_core_analysis(analyze)
     for index, case in enumerate(chunk.cases):
         if should_stop is not None and should_stop():
             raise ChunkAbandoned(chunk.chunk_id)
@@ -116,7 +118,7 @@ def run_chunk(
                 sections[spec.section_id] = spec.build()
             tick = time.perf_counter()
             try:
-                if analysis_function is None and index not in together:
+                if shared and index not in together:
                     together.update(
                         _analyze_together(sections[spec.section_id], chunk.cases, index)
                     )
@@ -185,6 +187,13 @@ def _analyze_together(section: Any, cases: Sequence[Case], first: int) -> dict[i
     return {
         index: frame.filter(pl.col("condition_index") == k) for k, index in enumerate(group)
     }
+
+
+def _is_core_analysis(analyze: AnalysisFunction) -> bool:
+    """Whether `analyze` is :func:`wakerank.analyze` itself."""
+    import wakerank
+
+    return analyze is getattr(wakerank, "analyze", None)
 
 
 def _default_analysis() -> AnalysisFunction:
