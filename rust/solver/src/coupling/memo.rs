@@ -16,9 +16,11 @@ use crate::error::Result;
 use super::iteration::{CoupledSolution, Strategy};
 use super::settings::ViscousSettings;
 
-/// Most results kept per section (about 50 kB each at 160 panels): a bound on the memory a
-/// long run of failing angles can take; past it results are computed and not kept.
-const MAX_ENTRIES: usize = 2_000;
+/// Most results kept per section (some 25 kB each at 160 panels, 50 kB at 320: the marched
+/// stations of both sides and the wake, and the mass defect): a bound of a few tens of
+/// megabytes on what a long run of failing angles can take; past it results are computed and
+/// not kept. (A sweep whose angles all converge keeps one or two per angle.)
+const MAX_ENTRIES: usize = 1_000;
 
 /// What a run of the quasi-simultaneous iteration depends on besides the section: the angle,
 /// the warm start's mass defect, the strategy and the settings it reads.
