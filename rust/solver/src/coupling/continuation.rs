@@ -55,13 +55,21 @@ impl KnownFailures {
 /// The known failures of a sweep (or of one single-angle analysis), one record per kind of
 /// attempt.
 #[derive(Default)]
-pub(crate) struct SweepFailures {
+struct SweepFailures {
     /// [`solve_angle`] from a warm start.
-    pub angle: KnownFailures,
+    angle: KnownFailures,
     /// The Newton iteration from the warm start's iterate only.
-    pub warm_newton: KnownFailures,
+    warm_newton: KnownFailures,
     /// The first-order-wake solution from a warm start.
-    pub first_order: KnownFailures,
+    first_order: KnownFailures,
+}
+
+/// How a sweep (or a single-angle analysis) solves its angles: the section, the settings and
+/// the record of the attempts known to fail, with the continuation in α of every attempt.
+pub(crate) struct AngleSolver<'a> {
+    model: &'a SectionModel,
+    settings: &'a ViscousSettings,
+    failures: SweepFailures,
 }
 
 /// `attempt` at `alpha_deg` from `warm` = (angle, start), then, when that fails and there is a
@@ -81,53 +89,95 @@ fn attempt_with_continuation(
     }
 }
 
-/// Solve `alpha_deg` from the converged neighbour `warm` = (angle, mass defect); when that
-/// fails, approach it through intermediate angles (the step halved, up to two levels), each
-/// warm-started from the last converged one: continuation in α.
-pub(crate) fn solve_with_continuation(
-    section: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: Option<&(f64, WarmStart)>,
-    failures: &SweepFailures,
-) -> Attempt {
-    attempt_with_continuation(alpha_deg, warm, &failures.angle, |a, start| {
-        solve_angle(section, a, settings, start)
-    })
-}
-
-/// The first-order-wake solution at `alpha_deg` ([`first_order_wake_solution`]) from `warm` =
-/// (angle, state), with the continuation in α of [`continuation`]; only a converged one.
-pub(crate) fn first_order_with_continuation(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: Option<&(f64, WarmStart)>,
-    failures: &SweepFailures,
-) -> Attempt {
-    attempt_with_continuation(alpha_deg, warm, &failures.first_order, |a, start| {
-        let case = model.case(a, settings).ok()?;
-        let solution = first_order_wake_solution(&case, settings, start)?;
-        Some((case, solution))
-    })
-    .filter(|(_, s)| s.converged)
-}
-
-/// [`solve_with_continuation`], and where that converges nothing, the first-order-wake
-/// solution from the same warm start: for the single-angle entries (stations, target cl) the
-/// same attempts, continuation and last resort a sweep has.
-pub(crate) fn solve_with_continuation_or_first_order(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: Option<&(f64, WarmStart)>,
-    failures: &SweepFailures,
-) -> Attempt {
-    let solved = solve_with_continuation(model, alpha_deg, settings, warm, failures);
-    if solved.as_ref().is_some_and(|(_, s)| s.converged) {
-        return solved;
+impl<'a> AngleSolver<'a> {
+    /// The solver of `model`'s angles under `settings`, with no failure known yet.
+    pub(crate) fn new(model: &'a SectionModel, settings: &'a ViscousSettings) -> Self {
+        AngleSolver {
+            model,
+            settings,
+            failures: SweepFailures::default(),
+        }
     }
-    first_order_with_continuation(model, alpha_deg, settings, warm, failures).or(solved)
+
+    /// The settings.
+    pub(crate) fn settings(&self) -> &'a ViscousSettings {
+        self.settings
+    }
+
+    /// Solve `alpha_deg` from the converged neighbour `warm` = (angle, mass defect); when that
+    /// fails, approach it through intermediate angles (the step halved, up to two levels), each
+    /// warm-started from the last converged one: continuation in α.
+    pub(crate) fn solve(&self, alpha_deg: f64, warm: Option<&(f64, WarmStart)>) -> Attempt {
+        let (model, settings) = (self.model, self.settings);
+        attempt_with_continuation(alpha_deg, warm, &self.failures.angle, |a, start| {
+            solve_angle(model, a, settings, start)
+        })
+    }
+
+    /// The first-order-wake solution at `alpha_deg` ([`first_order_wake_solution`]) from
+    /// `warm` = (angle, state), with the continuation in α of [`continuation`]; only a
+    /// converged one.
+    pub(crate) fn first_order(&self, alpha_deg: f64, warm: Option<&(f64, WarmStart)>) -> Attempt {
+        let (model, settings) = (self.model, self.settings);
+        attempt_with_continuation(alpha_deg, warm, &self.failures.first_order, |a, start| {
+            let case = model.case(a, settings).ok()?;
+            let solution = first_order_wake_solution(&case, settings, start)?;
+            Some((case, solution))
+        })
+        .filter(|(_, s)| s.converged)
+    }
+
+    /// [`Self::solve`], and where that converges nothing, the first-order-wake solution from
+    /// the same warm start: for the single-angle entries (stations, target cl) the same
+    /// attempts, continuation and last resort a sweep has.
+    pub(crate) fn solve_or_first_order(
+        &self,
+        alpha_deg: f64,
+        warm: Option<&(f64, WarmStart)>,
+    ) -> Attempt {
+        let solved = self.solve(alpha_deg, warm);
+        if solved.as_ref().is_some_and(|(_, s)| s.converged) {
+            return solved;
+        }
+        self.first_order(alpha_deg, warm).or(solved)
+    }
+
+    /// The Newton iteration at `alpha_deg` from the iterate `warm` = (angle, state) only, with
+    /// the continuation of [`continuation`].
+    pub(crate) fn warm_newton(&self, alpha_deg: f64, warm: (f64, WarmStart)) -> Attempt {
+        let (model, settings) = (self.model, self.settings);
+        attempt_with_continuation(
+            alpha_deg,
+            Some(&warm),
+            &self.failures.warm_newton,
+            |a, start| {
+                let case = model.case(a, settings).ok()?;
+                let solution = CoupledProblem::new(&case, settings)
+                    .solve(start?.state.as_ref()?)
+                    .ok()?;
+                Some((case, solution))
+            },
+        )
+    }
+
+    /// The last converged of the angles 0°, … (steps of at most `APPROACH_STEP_DEG`) short
+    /// of `alpha_deg`, each warm-started from the one before: the warm start (angle, state)
+    /// with which an angle far from 0° is solved as a sweep from 0° would reach it. None when
+    /// none converges or `alpha_deg` is within one step of 0°.
+    pub(crate) fn approach_from_zero(&self, alpha_deg: f64) -> Option<(f64, WarmStart)> {
+        let steps = (alpha_deg.abs() / APPROACH_STEP_DEG).ceil() as usize;
+        let mut warm: Option<(f64, WarmStart)> = None;
+        for k in 0..steps {
+            let a = alpha_deg * k as f64 / steps as f64;
+            let start = warm.as_ref().map(|w| &w.1);
+            if let Some((_, s)) = solve_angle(self.model, a, self.settings, start) {
+                if s.converged {
+                    warm = Some((a, s.warm_start()));
+                }
+            }
+        }
+        warm
+    }
 }
 
 /// Continuation in α after the attempt `first` at `alpha_deg` from `warm` = (angle, start):
@@ -183,49 +233,9 @@ fn continuation(
     first
 }
 
-/// The Newton iteration at `alpha_deg` from the iterate `warm` = (angle, state) only, with
-/// the continuation of [`continuation`].
-pub(crate) fn warm_newton_with_continuation(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-    warm: (f64, WarmStart),
-    failures: &SweepFailures,
-) -> Attempt {
-    attempt_with_continuation(alpha_deg, Some(&warm), &failures.warm_newton, |a, start| {
-        let case = model.case(a, settings).ok()?;
-        let solution = CoupledProblem::new(&case, settings)
-            .solve(start?.state.as_ref()?)
-            .ok()?;
-        Some((case, solution))
-    })
-}
-
 /// Largest step between the intermediate angles by which an angle away from 0° is approached
 /// from 0° (degrees).
 const APPROACH_STEP_DEG: f64 = 2.0;
-
-/// The last converged of the angles 0°, … (steps of at most `APPROACH_STEP_DEG`) short of
-/// `alpha_deg`, each warm-started from the one before: the warm start (angle, state) with which
-/// an angle far from 0° is solved as a sweep from 0° would reach it. None when none converges
-/// or `alpha_deg` is within one step of 0°.
-pub(crate) fn approach_from_zero(
-    model: &SectionModel,
-    alpha_deg: f64,
-    settings: &ViscousSettings,
-) -> Option<(f64, WarmStart)> {
-    let steps = (alpha_deg.abs() / APPROACH_STEP_DEG).ceil() as usize;
-    let mut warm: Option<(f64, WarmStart)> = None;
-    for k in 0..steps {
-        let a = alpha_deg * k as f64 / steps as f64;
-        if let Some((_, s)) = solve_angle(model, a, settings, warm.as_ref().map(|w| &w.1)) {
-            if s.converged {
-                warm = Some((a, s.warm_start()));
-            }
-        }
-    }
-    warm
-}
 
 #[cfg(test)]
 mod tests {

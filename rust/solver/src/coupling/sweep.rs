@@ -7,10 +7,7 @@ use crate::geometry::Section;
 
 use crate::inviscid::compressibility::{critical_cp, karman_tsien_cp as karman_tsien};
 
-use super::continuation::{
-    approach_from_zero, first_order_with_continuation, solve_with_continuation,
-    solve_with_continuation_or_first_order, warm_newton_with_continuation, SweepFailures,
-};
+use super::continuation::AngleSolver;
 use super::forces::{
     far_wake_drag, friction_drag, integrate_pressure, squire_young, wetted_pressure_drag,
 };
@@ -93,8 +90,9 @@ pub(crate) fn sweep(
     }) else {
         return Vec::new();
     };
-    // Every attempt of the sweep known to fail, so that no continuation repeats one.
-    let failures = SweepFailures::default();
+    // The angles' attempts, with the record of those known to fail (no continuation repeats
+    // one).
+    let solver = AngleSolver::new(model, settings);
     let upward: Vec<usize> = order[start..].to_vec();
     let downward: Vec<usize> = order[..start].iter().rev().copied().collect();
     let mut start_defect: Option<(f64, WarmStart)> = None;
@@ -109,14 +107,12 @@ pub(crate) fn sweep(
         };
         for (k, &index) in indices.iter().enumerate() {
             let alpha = alpha_deg[index];
-            let mut solved =
-                solve_with_continuation(model, alpha, settings, warm.as_ref(), &failures);
+            let mut solved = solver.solve(alpha, warm.as_ref());
             if pass == 0 && k == 0 && !solved.as_ref().is_some_and(|(_, s)| s.converged) {
                 // A sweep that starts away from 0° (its angle nearest 0° failed cold): approach
                 // that angle from 0° as a sweep from 0° would.
-                if let Some(approach) = approach_from_zero(model, alpha, settings) {
-                    let again =
-                        solve_with_continuation(model, alpha, settings, Some(&approach), &failures);
+                if let Some(approach) = solver.approach_from_zero(alpha) {
+                    let again = solver.solve(alpha, Some(&approach));
                     if again.as_ref().is_some_and(|(_, s)| s.converged) {
                         solved = again;
                     }
@@ -140,11 +136,9 @@ pub(crate) fn sweep(
         }
     }
     let grid = SweepGrid {
-        model,
+        solver: &solver,
         alpha_deg,
-        settings,
         order: &order,
-        failures: &failures,
     };
     grid.repair(&mut rows, &mut warm_of);
     grid.beyond_the_ends(&mut rows, &warm_of);
@@ -159,24 +153,27 @@ pub(crate) fn sweep(
 /// the settings and the angles' indices in ascending α.
 #[derive(Clone, Copy)]
 struct SweepGrid<'a> {
-    model: &'a SectionModel,
+    solver: &'a AngleSolver<'a>,
     alpha_deg: &'a [f64],
-    settings: &'a ViscousSettings,
     order: &'a [usize],
-    failures: &'a SweepFailures,
 }
 
 impl<'a> SweepGrid<'a> {
-    /// The grid's fields, for the passes' bodies.
+    /// The grid's fields and the settings, for the passes' bodies.
     fn parts(
         &self,
     ) -> (
-        &'a SectionModel,
+        &'a AngleSolver<'a>,
         &'a [f64],
         &'a ViscousSettings,
         &'a [usize],
     ) {
-        (self.model, self.alpha_deg, self.settings, self.order)
+        (
+            self.solver,
+            self.alpha_deg,
+            self.solver.settings(),
+            self.order,
+        )
     }
 
     /// An end angle of the sweep (lowest or highest) that failed, next to a converged one: the
@@ -186,7 +183,7 @@ impl<'a> SweepGrid<'a> {
     /// fails from below is often reached from above (NACA 0012 at Re 2e5: +6° converges from 7°
     /// where it failed from 5°).
     fn beyond_the_ends(&self, rows: &mut [Option<ViscousRow>], warm_of: &[Option<WarmStart>]) {
-        let (model, alpha_deg, settings, order) = self.parts();
+        let (solver, alpha_deg, settings, order) = self.parts();
         let n = order.len();
         if n < 2 {
             return;
@@ -202,20 +199,14 @@ impl<'a> SweepGrid<'a> {
             };
             let (a_end, a_inner) = (alpha_deg[end], alpha_deg[inner]);
             let beyond = a_end + (a_end - a_inner);
-            let Some((_, helper)) = solve_with_continuation(
-                model,
-                beyond,
-                settings,
-                Some(&(a_inner, warm)),
-                self.failures,
-            )
-            .filter(|(_, s)| s.converged) else {
+            let Some((_, helper)) = solver
+                .solve(beyond, Some(&(a_inner, warm)))
+                .filter(|(_, s)| s.converged)
+            else {
                 continue;
             };
-            if let Some((case, solution)) = {
-                let warm = (beyond, helper.warm_start());
-                warm_newton_with_continuation(model, a_end, settings, warm, self.failures)
-            } {
+            if let Some((case, solution)) = solver.warm_newton(a_end, (beyond, helper.warm_start()))
+            {
                 if solution.converged {
                     rows[end] = Some(polar_row(&case, &solution, settings));
                 }
@@ -229,7 +220,7 @@ impl<'a> SweepGrid<'a> {
     /// failed otherwise solves everything on one side of it cold. The order is fixed, so the
     /// result does not depend on anything but the inputs.
     fn repair(&self, rows: &mut [Option<ViscousRow>], warm_of: &mut [Option<WarmStart>]) {
-        let (model, alpha_deg, settings, order) = self.parts();
+        let (solver, alpha_deg, settings, order) = self.parts();
         let converged =
             |rows: &[Option<ViscousRow>], i: usize| rows[i].as_ref().is_some_and(|r| r.converged);
         let mut tried: std::collections::HashSet<(usize, usize)> = std::collections::HashSet::new();
@@ -252,13 +243,9 @@ impl<'a> SweepGrid<'a> {
                         continue;
                     }
                     let alpha = alpha_deg[index];
-                    if let Some((case, solution)) = warm_newton_with_continuation(
-                        model,
-                        alpha,
-                        settings,
-                        (alpha_deg[nb], state),
-                        self.failures,
-                    ) {
+                    if let Some((case, solution)) =
+                        solver.warm_newton(alpha, (alpha_deg[nb], state))
+                    {
                         if solution.converged {
                             rows[index] = Some(polar_row(&case, &solution, settings));
                             warm_of[index] = Some(solution.warm_start());
@@ -279,7 +266,7 @@ impl<'a> SweepGrid<'a> {
     /// above (in α order), with the continuation in α of [`continuation`]. The neighbours are the
     /// full-model solutions of the passes before, so the order of this pass does not matter.
     fn first_order_rows(&self, rows: &mut [Option<ViscousRow>], warm_of: &[Option<WarmStart>]) {
-        let (model, alpha_deg, settings, order) = self.parts();
+        let (solver, alpha_deg, settings, order) = self.parts();
         if !settings.wake_curvature {
             return;
         }
@@ -296,13 +283,7 @@ impl<'a> SweepGrid<'a> {
             .into_iter()
             .flatten()
             .find_map(|p| warm_of[order[p]].clone().map(|w| (alpha_deg[order[p]], w)));
-            if let Some((case, solution)) = first_order_with_continuation(
-                model,
-                alpha,
-                settings,
-                neighbour.as_ref(),
-                self.failures,
-            ) {
+            if let Some((case, solution)) = solver.first_order(alpha, neighbour.as_ref()) {
                 rows[index] = Some(polar_row(&case, &solution, settings));
             }
         }
@@ -318,15 +299,9 @@ pub fn boundary_layer_stations(
 ) -> Result<ViscousAnalysis> {
     settings.validate()?;
     let model = SectionModel::new(section, settings)?;
-    let warm = approach_from_zero(&model, alpha_deg, settings);
-    let failures = SweepFailures::default();
-    match solve_with_continuation_or_first_order(
-        &model,
-        alpha_deg,
-        settings,
-        warm.as_ref(),
-        &failures,
-    ) {
+    let solver = AngleSolver::new(&model, settings);
+    let warm = solver.approach_from_zero(alpha_deg);
+    match solver.solve_or_first_order(alpha_deg, warm.as_ref()) {
         Some((case, solution)) => Ok(ViscousAnalysis {
             row: polar_row(&case, &solution, settings),
             stations: stations(&case, &solution),

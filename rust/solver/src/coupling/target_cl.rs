@@ -3,7 +3,7 @@
 use crate::error::{Result, SolverError};
 use crate::geometry::Section;
 
-use super::continuation::{solve_with_continuation_or_first_order, SweepFailures};
+use super::continuation::AngleSolver;
 use super::model::SectionModel;
 use super::settings::ViscousSettings;
 use super::sweep::polar_row;
@@ -60,16 +60,10 @@ pub fn solve_for_cl(
     // its row.
     let mut short: Option<(f64, f64, ViscousRow)> = None;
     let mut past: Option<(f64, f64, ViscousRow)> = None;
-    // (Attempts known to fail, shared by the search's angles.)
-    let failures = SweepFailures::default();
+    // (One solver for the search's angles: the attempts known to fail are shared.)
+    let solver = AngleSolver::new(&model, settings);
     for _ in 0..40 {
-        let solved = solve_with_continuation_or_first_order(
-            &model,
-            alpha,
-            settings,
-            warm.as_ref(),
-            &failures,
-        );
+        let solved = solver.solve_or_first_order(alpha, warm.as_ref());
         let Some((case, sol)) = solved else { break };
         let row = polar_row(&case, &sol, settings);
         if !row.converged {
