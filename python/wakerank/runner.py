@@ -106,6 +106,9 @@ def run_chunk(
     # earlier case of the same section (`_analyze_together`), by case index; only when the
     # analysis is the core's own (`wakerank.analyze`), whose rows these are.
     together: dict[int, pl.DataFrame] = {}
+    # Cases already part of a group tried together (computed, or to run alone after the group's
+    # call failed), so that no group is tried twice.
+    grouped: set[int] = set()
     shared = _is_core_analysis(analyze)
     for index, case in enumerate(chunk.cases):
         if should_stop is not None and should_stop():
@@ -118,10 +121,12 @@ def run_chunk(
                 sections[spec.section_id] = spec.build()
             tick = time.perf_counter()
             try:
-                if shared and index not in together:
-                    together.update(
-                        _analyze_together(sections[spec.section_id], chunk.cases, index)
+                if shared and index not in grouped:
+                    group, results = _analyze_together(
+                        sections[spec.section_id], chunk.cases, index
                     )
+                    grouped.update(group)
+                    together.update(results)
                 result = together.pop(index, None)
                 if result is None:
                     result = analyze(
@@ -154,10 +159,13 @@ def run_chunk(
     )
 
 
-def _analyze_together(section: Any, cases: Sequence[Case], first: int) -> dict[int, pl.DataFrame]:
-    """The polars of case `first` and of the later cases of `cases` with the same section and
-    angle grid, computed in one call of the core, by case index; empty when there is no other
-    such case or the call fails (each case then runs alone and meets its own error).
+def _analyze_together(
+    section: Any, cases: Sequence[Case], first: int
+) -> tuple[list[int], dict[int, pl.DataFrame]]:
+    """Case `first` and the later cases of `cases` with the same section and angle grid (their
+    indices), and their polars computed in one call of the core, by case index; no polars when
+    there is no other such case or the call fails (each case then runs alone and meets its own
+    error).
 
     The core shares the section's panel solution, its cases by angle and its
     quasi-simultaneous runs between the conditions, none of which depends on the Reynolds
@@ -174,7 +182,7 @@ def _analyze_together(section: Any, cases: Sequence[Case], first: int) -> dict[i
         and cases[index].condition.alpha_deg == head.condition.alpha_deg
     ]
     if len(group) < 2:
-        return {}
+        return group, {}
     conditions = []
     for index in group:
         options = cases[index].condition.analysis_options()
@@ -183,8 +191,8 @@ def _analyze_together(section: Any, cases: Sequence[Case], first: int) -> dict[i
     try:
         frame = analyze_batch([section], conditions, list(head.condition.alpha_deg), threads=1)
     except WakerankError:
-        return {}
-    return {
+        return group, {}
+    return group, {
         index: frame.filter(pl.col("condition_index") == k) for k, index in enumerate(group)
     }
 
